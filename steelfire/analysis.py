@@ -1,0 +1,273 @@
+"""The analysis chain: case model -> design fire -> steel temperatures -> member verdicts.
+
+No physics lives here: it calls the fire, steel and heat modules and gathers their results.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from . import heat, steel
+from .case import Case
+from .errors import InputError, OutOfScopeError
+from .fire import compartment as comp
+from .fire import fireload, nominal, parametric, tabulated
+from .results import AnalysisResult, FireResult, MemberResult
+
+CAUTIONS = (
+    "Simplified code methods (EN 1991-1-2, EN 1993-1-2) with validity limits; Annexes A, E and F are informative.",
+    "Results must be verified by a competent fire engineer before use.",
+    "National annexes, local codes and the approving authority prevail over the values used here.",
+    "Protection products must be used within their own assessed ranges (thickness, section factor, temperature, fire exposure).",
+)
+CAUTIONS_LINE = ("CAUTION: simplified code methods within their validity limits; verify by a competent fire "
+                 "engineer; national annexes, local codes and the approving authority prevail; use protection "
+                 "products only within their assessed ranges.")
+
+#: Band of (0.2e-3 q_t,d / O) / t_lim around 1 in which a warning names the regime jump.
+REGIME_BAND = 0.1
+#: Relative thickness increase used to detect a burnout peak that rises with thickness.
+THICKNESS_PROBE = 0.10
+
+
+def _names(names, most=8):
+    names = list(names)
+    if len(names) <= most:
+        return ", ".join(names)
+    return ", ".join(names[:most]) + f" and {len(names) - most} more"
+
+
+class _Fire:
+    """A design fire as a function of time, plus its intermediate values."""
+
+    def __init__(self, curve, gas, key_times_s, result_fields, warnings, out_of_scope, alpha_c, cools):
+        self.curve = curve
+        self.gas = gas
+        self.key_times_s = key_times_s
+        self.fields = result_fields
+        self.warnings = warnings
+        self.out_of_scope = out_of_scope
+        self.alpha_c = alpha_c
+        self.cools = cools
+
+
+def compartment_values(case: Case) -> dict:
+    """O, h_eq, A_v, q_f,d, q_t,d, t_lim and b of the case's compartment (EN 1991-1-2 Annex A, E)."""
+    c, fl, code = case.compartment, case.fire_load, case.code
+    av = comp.vertical_opening_area(c.openings)
+    heq = comp.opening_height(c.openings)
+    o = comp.opening_factor(av, heq, c.boundary_area_m2)
+    if fl.design_MJ_m2 is not None:
+        dq1 = None
+        qfd = fl.design_MJ_m2
+    else:
+        dq1 = fireload.area_factor(c.floor_area_m2, code) if fl.area_factor == "auto" else fl.area_factor
+        qfd = fireload.design_fire_load(fl.characteristic_MJ_m2, fl.combustion_factor, dq1,
+                                        fl.occupancy_factor, fl.measures_factor)
+    qtd = comp.total_area_fire_load(qfd, c.floor_area_m2, c.boundary_area_m2)
+    t_lim_h = fireload.fire_growth_t_lim_h(fl.growth, code)
+    t_max_h = max(0.2e-3 * qtd / o, t_lim_h)
+    if c.thermal_inertia is not None:
+        b = c.thermal_inertia
+    else:
+        b = comp.weighted_thermal_inertia(c.surfaces, c.boundary_area_m2, av, t_max_h)
+    return {"vertical_opening_area_m2": av, "opening_height_m": heq, "opening_factor_m05": o,
+            "area_factor": dq1, "design_fire_load_MJ_m2": qfd, "total_area_fire_load_MJ_m2": qtd,
+            "t_lim_h": t_lim_h, "thermal_inertia": b}
+
+
+def design_fire(case: Case) -> _Fire:
+    """The case's design fire: nominal curve (EN 1991-1-2 3.2), Annex A parametric fire, or a table."""
+    code, spec = case.code, case.fire
+    warnings, oos = [], []
+    fields = {}
+    if case.compartment is not None and case.fire_load is not None:
+        cv = compartment_values(case)
+        fields.update({k: cv[k] for k in ("vertical_opening_area_m2", "opening_height_m", "opening_factor_m05",
+                                          "area_factor", "design_fire_load_MJ_m2", "total_area_fire_load_MJ_m2",
+                                          "thermal_inertia")})
+    key_times = []
+    cools = False
+    if spec.curve == "parametric":
+        c = case.compartment
+        violations = parametric.scope_violations(
+            cv["opening_factor_m05"], cv["thermal_inertia"], cv["total_area_fire_load_MJ_m2"],
+            c.floor_area_m2, c.height_m, c.roof_opening_area_m2, code)
+        for f, v, allowed in violations:
+            if not case.analysis.allow_out_of_scope:
+                raise OutOfScopeError(f, v, allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
+            oos.append(f"OUT OF SCOPE of EN 1991-1-2 Annex A: {f} = {v!r}; {allowed}")
+        pf = parametric.parametric_fire(cv["opening_factor_m05"], cv["thermal_inertia"],
+                                        cv["total_area_fire_load_MJ_m2"], cv["t_lim_h"])
+        gas = pf.gas_temperature
+        key_times = [pf.t_max_s, pf.burnout_time_s]
+        cools = True
+        fields.update(gamma=pf.gamma, gamma_lim=pf.gamma_lim, k_factor=pf.k_factor, t_lim_min=pf.t_lim_h * 60.0,
+                      t_max_min=pf.t_max_h * 60.0, regime=pf.regime, x_factor=pf.x_factor,
+                      cooling_rate_C_h=pf.cooling_rate_C_h, burnout_time_min=pf.burnout_time_h * 60.0)
+        ratio = pf.regime_ratio
+        if abs(ratio - 1.0) <= REGIME_BAND:
+            warnings.append(
+                f"Annex A regime boundary: (0.2e-3 q_t,d / O) / t_lim = {ratio:.3f} is within 10 % of 1; "
+                f"the fire is {pf.regime}-controlled, and across the boundary the peak gas temperature jumps "
+                "(O_lim = O/2 there, so Gamma_lim = Gamma/4), as published. Check the sensitivity to q_t,d and O.")
+        if pf.burnout_time_s > spec.duration_min * 60.0:
+            warnings.append(
+                f"The parametric fire has not burnt out at duration_min = {spec.duration_min:g} min "
+                f"(gas back at 20 C at {pf.burnout_time_h * 60:.1f} min): the cooling phase is cut short.")
+        alpha_c = code["alpha_c_natural"]
+        warnings.append("Annex A parametric fire: mainly cellulosic fire loads only (EN 1991-1-2 Annex A (2)).")
+    elif spec.curve == "table":
+        tf = tabulated.read_curve_csv(spec.file)
+        if spec.duration_min * 60.0 > tf.time_s[-1] + 1e-9:
+            raise InputError("fire.duration_min", spec.duration_min,
+                             f"must not exceed the last time of {tf.source} ({tf.time_s[-1] / 60:g} min)")
+        gas = tf.gas_temperature
+        key_times = list(tf.time_s)
+        cools = bool(np.any(np.diff(tf.temperature_C) < 0))
+        fields["source_file"] = tf.source
+        alpha_c = code["alpha_c_natural"]
+    else:
+        gas = nominal.NOMINAL_CURVES[spec.curve]
+        alpha_c = code[f"alpha_c_{spec.curve}"]
+    if spec.convection_coefficient is not None:
+        alpha_c = spec.convection_coefficient
+    return _Fire(spec.curve, gas, key_times, fields, warnings, oos, alpha_c, cools)
+
+
+def time_grid(duration_s: float, step_s: float, key_times_s=()) -> np.ndarray:
+    """A grid 0, step, 2 step, ... up to ``duration_s``, with the key times (t_max, ...) put on it."""
+    n = int(math.floor(duration_s / step_s + 1e-9))
+    t = np.arange(n + 1) * step_s
+    extra = [k for k in key_times_s if 0.0 < k < duration_s]
+    t = np.unique(np.concatenate([t, np.array(extra, dtype=float), [duration_s]]))
+    keep = np.concatenate([[True], np.diff(t) > 1e-6])
+    return t[keep]
+
+
+def _critical(member, code):
+    if member.critical_temperature_C is not None:
+        return member.critical_temperature_C, "given"
+    return steel.critical_temperature(member.utilisation), "EN 1993-1-2 eq (4.22)"
+
+
+def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False):
+    """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch`)."""
+    n = len(members)
+    k = max([len(case.materials[m.protection].conductivity_table) for m in members if m.protected] + [1])
+    bare = np.zeros(n, dtype=np.bool_)
+    amv = np.empty(n)
+    d_p = np.ones(n)
+    rho_p = np.ones(n)
+    c_p = np.ones(n)
+    lam_T = np.zeros((n, k))
+    lam_v = np.ones((n, k))
+    lam_n = np.ones(n, dtype=np.int64)
+    delay = np.zeros(n)
+    for i, m in enumerate(members):
+        if m.protected:
+            mat = case.materials[m.protection]
+            d = m.thickness_mm * 1e-3 * thickness_scale
+            amv[i] = m.section_factor_per_m
+            d_p[i], rho_p[i], c_p[i] = d, mat.density, mat.specific_heat
+            tab = mat.conductivity_table
+            lam_n[i] = len(tab)
+            for j, (th, lam) in enumerate(tab):
+                lam_T[i, j], lam_v[i, j] = th, lam
+            delay[i] = heat.moisture_delay_s(mat.moisture_percent, mat.density, d, mat.conductivity_at_20C)
+        else:
+            bare[i] = True
+            ksh = m.shadow_factor if m.shadow_factor is not None else 1.0
+            amv[i] = ksh * m.section_factor_per_m
+    return bare, amv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay
+
+
+def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
+                thickness_scale=1.0):
+    """Batch kernel over ``members`` on one fire; returns the kernel's tuple."""
+    code = case.code
+    eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
+    arrays = thermal_arrays(case, members, thickness_scale)
+    q = np.zeros(0, dtype=np.int64) if query_idx is None else np.asarray(query_idx, dtype=np.int64)
+    return heat.batch(time_s, gas_C, arrays[0], arrays[1], float(alpha_c), float(eps_res),
+                      float(code["steel_density_kg_m3"]), *arrays[2:], np.asarray(thresholds, dtype=float),
+                      q, keep_history)
+
+
+def analyse(case: Case, histories: bool = True) -> AnalysisResult:
+    """Run a case: design fire, steel temperatures, verdicts, warnings.
+
+    ``histories`` keeps each member's steel temperature on the design-fire grid
+    (``MemberResult.steel_temperature_C``); turn it off for very large schedules.
+    """
+    code = case.code
+    fire = design_fire(case)
+    warnings = list(fire.warnings)
+    step = case.analysis.time_step_s
+    t = time_grid(case.fire.duration_min * 60.0, step, fire.key_times_s)
+    g = np.asarray(fire.gas(t), dtype=float)
+    i_peak = int(np.argmax(g))
+    fr = FireResult(curve=case.fire.curve, duration_min=case.fire.duration_min, convection_coefficient=fire.alpha_c,
+                    time_s=t, gas_temperature_C=g, peak_gas_temperature_C=float(g[i_peak]),
+                    time_of_peak_gas_min=float(t[i_peak] / 60.0), **fire.fields)
+
+    members = case.members
+    crit = [_critical(m, code) for m in members]
+    thresholds = np.array([c[0] for c in crit])
+    peak, peak_t, _, _, last, hist = run_members(case, members, t, g, fire.alpha_c, thresholds,
+                                                 keep_history=histories)
+    # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
+    ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
+    gs = nominal.standard_fire(ts)
+    _, _, cross, _, _, _ = run_members(case, members, ts, gs, code["alpha_c_standard"], thresholds)
+
+    results = []
+    for i, m in enumerate(members):
+        results.append(MemberResult(
+            name=m.name, kind=m.kind, section_factor_per_m=m.section_factor_per_m, protection=m.protection,
+            thickness_mm=m.thickness_mm, critical_temperature_C=float(crit[i][0]),
+            critical_temperature_source=crit[i][1], peak_steel_temperature_C=float(peak[i]),
+            time_of_peak_steel_min=float(peak_t[i] / 60.0),
+            standard_fire_time_to_critical_min=None if np.isnan(cross[i]) else float(cross[i] / 60.0),
+            required_minutes=m.required_minutes, shadow_factor=m.shadow_factor, utilisation=m.utilisation,
+            steel_temperature_C=hist[:, i].copy() if histories else None))
+
+    warnings += _member_warnings(case, members, fire, t, g, peak, last)
+    if case.fire.curve in ("parametric", "table") or case.fire_load is not None:
+        pass
+    return AnalysisResult(title=case.title, fire=fr, members=results, code_values=dict(code),
+                          warnings=fire.out_of_scope + warnings, out_of_scope=list(fire.out_of_scope),
+                          time_step_s=step, standard_horizon_min=case.analysis.standard_horizon_min,
+                          cautions=CAUTIONS)
+
+
+def _member_warnings(case, members, fire, t, g, peak, last):
+    out = []
+    unstable = [m.name for m in members if m.utilisation is not None and (
+        m.kind in ("column", "brace", "other") or (m.kind == "beam" and m.laterally_restrained is not True))]
+    if unstable:
+        out.append(
+            "EN 1993-1-2 eq (4.22) holds for members without instability (tension members, laterally restrained "
+            f"beams) with class 1-3 sections; it is used here for {_names(unstable)}: check buckling or lateral-"
+            "torsional buckling by EN 1993-1-2 4.2.3 (class 4 sections: 350 C, 4.2.3.6).")
+    if fire.cools:
+        heating = [m.name for m, d in zip(members, last) if d > 1e-9]
+        if heating:
+            out.append(
+                f"Steel still heating at the end of the design fire (duration_min = {case.fire.duration_min:g}) "
+                f"for {_names(heating)}: the true peak comes later; extend fire.duration_min.")
+        prot = [i for i, m in enumerate(members) if m.protected]
+        if prot:
+            sub = [members[i] for i in prot]
+            thr = np.full(len(sub), np.inf)
+            thick_peak = run_members(case, sub, t, g, fire.alpha_c, thr, thickness_scale=1.0 + THICKNESS_PROBE)[0]
+            rising = [members[i].name for j, i in enumerate(prot) if thick_peak[j] > peak[i] + 0.01]
+            if rising:
+                out.append(
+                    f"Burnout peak rises with thickness for {_names(rising)}: 10 % more protection gives a hotter "
+                    "peak in the cooling phase under EN 1993-1-2 eq (4.27) (its (e^(phi/10) - 1) term adds heat "
+                    "as the gas cools). A property of the published equation; check such members with a more "
+                    "detailed model and do not rely on 'thicker is cooler' here.")
+    return out

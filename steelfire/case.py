@@ -1,0 +1,501 @@
+"""Case files (TOML) -> a validated case model.
+
+Every value is checked once, here, at the boundary; a bad value raises :class:`InputError` naming
+the field, the value and what is allowed. The keys are those of the case-file contract in the
+project's design notes; units are in the key names (SI, temperatures in C).
+"""
+
+from __future__ import annotations
+
+import math
+import sys
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from . import codevalues
+from .errors import InputError
+from .fire.compartment import Layer, Opening, Surface
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover - exercised on Python 3.10 only
+    import tomli as tomllib
+
+CURVES = ("parametric", "standard", "hydrocarbon", "external", "table")
+KINDS = ("beam", "column", "tension", "brace", "other")
+GROWTHS = ("slow", "medium", "fast")
+
+# Bounds that catch absurd input (a typo, a wrong unit), beyond which no fire engineer would go.
+MAX_DURATION_MIN = 1440.0        # 24 h
+MAX_GRID_POINTS = 2_000_000
+MAX_MEMBERS = 200_000
+
+
+# ----------------------------------------------------------------------------------------------
+# the case model
+
+
+@dataclass(frozen=True)
+class Compartment:
+    floor_area_m2: float
+    height_m: float
+    boundary_area_m2: float
+    openings: tuple
+    thermal_inertia: float | None = None
+    surfaces: tuple = ()
+    roof_opening_area_m2: float = 0.0
+
+
+@dataclass(frozen=True)
+class FireLoad:
+    characteristic_MJ_m2: float | None
+    design_MJ_m2: float | None
+    combustion_factor: float = 0.8
+    area_factor: float | str = "auto"
+    occupancy_factor: float = 1.0
+    measures_factor: float = 1.0
+    growth: str = "medium"
+
+
+@dataclass(frozen=True)
+class FireSpec:
+    curve: str
+    duration_min: float
+    file: Path | None = None
+    convection_coefficient: float | None = None
+
+
+@dataclass(frozen=True)
+class AnalysisSettings:
+    time_step_s: float = 5.0
+    standard_horizon_min: float = 240.0
+    allow_out_of_scope: bool = False
+
+
+@dataclass(frozen=True)
+class Material:
+    """A protection material: density [kg/m3], conductivity [W/(m K)] or a table of
+    (steel temperature [C], conductivity [W/(m K)]) pairs, specific heat [J/(kg K)], free water [%]."""
+
+    name: str
+    density: float
+    conductivity: float | tuple
+    specific_heat: float
+    moisture_percent: float = 0.0
+
+    @property
+    def conductivity_table(self) -> tuple:
+        if isinstance(self.conductivity, tuple):
+            return self.conductivity
+        return ((20.0, float(self.conductivity)),)
+
+    @property
+    def conductivity_at_20C(self) -> float:
+        return self.conductivity_table[0][1]
+
+
+@dataclass(frozen=True)
+class Member:
+    name: str
+    kind: str
+    section_factor_per_m: float
+    utilisation: float | None = None
+    critical_temperature_C: float | None = None
+    protection: str | None = None
+    thickness_mm: float | None = None
+    required_minutes: float | None = None
+    shadow_factor: float | None = None
+    laterally_restrained: bool | None = None
+
+    @property
+    def protected(self) -> bool:
+        return self.protection is not None
+
+
+@dataclass(frozen=True)
+class Case:
+    title: str
+    fire: FireSpec
+    analysis: AnalysisSettings
+    members: tuple
+    materials: dict
+    code: dict
+    compartment: Compartment | None = None
+    fire_load: FireLoad | None = None
+    source: Path | None = None
+    code_overrides: dict = field(default_factory=dict)
+
+
+# ----------------------------------------------------------------------------------------------
+# reading
+
+
+class _Table:
+    """Reads one TOML table, checking types and ranges, and refuses keys nobody read."""
+
+    def __init__(self, data, where: str):
+        if not isinstance(data, dict):
+            raise InputError(where, data, "must be a table")
+        self.data = data
+        self.where = where
+        self.seen = set()
+
+    def _f(self, key):
+        return f"{self.where}.{key}" if self.where else key
+
+    def has(self, key):
+        return key in self.data
+
+    def raw(self, key, default=None):
+        self.seen.add(key)
+        return self.data.get(key, default)
+
+    def number(self, key, unit, *, required=True, default=None, lo=None, hi=None, lo_open=False,
+               integer=False):
+        self.seen.add(key)
+        if key not in self.data:
+            if required:
+                raise InputError(self._f(key), None, f"is missing; give a number [{unit}]")
+            return default
+        v = self.data[key]
+        if isinstance(v, bool) or not isinstance(v, (int, float)):
+            raise InputError(self._f(key), v, f"must be a number [{unit}] (units are in the key name)")
+        if not math.isfinite(v):
+            raise InputError(self._f(key), v, f"must be a finite number [{unit}]")
+        if integer and v != int(v):
+            raise InputError(self._f(key), v, "must be a whole number")
+        lo_ok = lo is None or (v > lo if lo_open else v >= lo)
+        hi_ok = hi is None or v <= hi
+        if not (lo_ok and hi_ok):
+            raise InputError(self._f(key), v, _range_text(lo, hi, lo_open, unit))
+        return float(v) if not integer else int(v)
+
+    def string(self, key, *, required=True, default=None, choices=None):
+        self.seen.add(key)
+        if key not in self.data:
+            if required:
+                raise InputError(self._f(key), None, "is missing" + (f"; one of {', '.join(choices)}" if choices else ""))
+            return default
+        v = self.data[key]
+        if not isinstance(v, str):
+            raise InputError(self._f(key), v, "must be a string" + (f": one of {', '.join(choices)}" if choices else ""))
+        if choices is not None and v not in choices:
+            raise InputError(self._f(key), v, f"must be one of {', '.join(choices)}")
+        return v
+
+    def boolean(self, key, *, default=None):
+        self.seen.add(key)
+        if key not in self.data:
+            return default
+        v = self.data[key]
+        if not isinstance(v, bool):
+            raise InputError(self._f(key), v, "must be true or false")
+        return v
+
+    def done(self, allowed=None):
+        unknown = [k for k in self.data if k not in self.seen and (allowed is None or k not in allowed)]
+        if unknown:
+            k = unknown[0]
+            import difflib
+
+            close = difflib.get_close_matches(k, sorted(self.seen | set(allowed or ())), n=2)
+            hint = f"; did you mean {' or '.join(close)}?" if close else ""
+            raise InputError(self._f(k), self.data[k], "is not a known key" + hint)
+
+
+def _range_text(lo, hi, lo_open, unit):
+    if lo is not None and hi is not None:
+        return f"must be {'>' if lo_open else '>='} {lo:g} and <= {hi:g} [{unit}]"
+    if lo is not None:
+        return f"must be {'>' if lo_open else '>='} {lo:g} [{unit}]"
+    return f"must be <= {hi:g} [{unit}]"
+
+
+def load_case(path) -> Case:
+    """Read and validate a case file (TOML). Raises InputError on any bad value."""
+    p = Path(path)
+    if not p.is_file():
+        raise InputError("case file", str(path), "must be an existing TOML file")
+    try:
+        with p.open("rb") as fh:
+            data = tomllib.load(fh)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError("case file", p.name, f"is not valid TOML ({exc})") from None
+    except OSError as exc:
+        raise InputError("case file", p.name, f"cannot be read ({exc.strerror})") from None
+    return case_from_dict(data, base_dir=p.parent, source=p)
+
+
+def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
+    """Validate a case given as a dict of the TOML contract (paths relative to ``base_dir``)."""
+    top = _Table(data, "")
+    title = top.string("title", required=False, default="untitled case")
+    code_data = top.raw("code", {})
+    if not isinstance(code_data, dict):
+        raise InputError("code", code_data, "must be a table of code value names and numbers")
+    code = codevalues.resolve(code_data)
+
+    fire = _read_fire(_Table(top.raw("fire"), "fire") if top.has("fire") else None, Path(base_dir))
+    analysis = _read_analysis(top.raw("analysis", {}))
+    compartment = _read_compartment(top.raw("compartment")) if top.has("compartment") else None
+    fire_load = _read_fire_load(top.raw("fire_load")) if top.has("fire_load") else None
+    if fire.curve == "parametric":
+        if compartment is None:
+            raise InputError("compartment", None, "is missing; the parametric curve needs the compartment")
+        if fire_load is None:
+            raise InputError("fire_load", None, "is missing; the parametric curve needs the fire load")
+        if compartment.thermal_inertia is None and not compartment.surfaces:
+            raise InputError("compartment.thermal_inertia", None,
+                             "is missing; give thermal_inertia or [[compartment.surface]] tables")
+    materials = _read_materials(top.raw("materials", {}))
+    members_raw = top.raw("member", [])
+    if not isinstance(members_raw, list) or not members_raw:
+        raise InputError("member", members_raw if members_raw else None,
+                         "needs at least one [[member]] table")
+    if len(members_raw) > MAX_MEMBERS:
+        raise InputError("member", len(members_raw), f"at most {MAX_MEMBERS} members per case")
+    members = tuple(_read_member(m, i + 1, materials, code) for i, m in enumerate(members_raw))
+    names = {}
+    for i, m in enumerate(members):
+        if m.name in names:
+            raise InputError(f"member[{i + 1}].name", m.name, f"must be unique (also member[{names[m.name]}])")
+        names[m.name] = i + 1
+    top.done()
+
+    limit, clause = time_step_limit(members, code)
+    check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
+    for i, m in enumerate(members):
+        if m.required_minutes is not None and m.required_minutes > analysis.standard_horizon_min:
+            raise InputError(f"member[{i + 1}].required_minutes", m.required_minutes,
+                             f"must be <= analysis.standard_horizon_min = {analysis.standard_horizon_min:g} min")
+    return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
+                compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
+                code_overrides={k: float(v) for k, v in code_data.items()})
+
+
+def time_step_limit(members, code):
+    """Largest time step [s] the clauses allow for these members, and the clause that sets it."""
+    if any(not m.protected for m in members):
+        return code["max_time_step_bare_s"], "EN 1993-1-2 4.2.5.1(4), bare steel"
+    return code["max_time_step_protected_s"], "EN 1993-1-2 4.2.5.2(3), protected steel"
+
+
+def with_time_step(case: Case, time_step_s, field="--time-step-s") -> Case:
+    """The case with another time step, checked like the case file's own."""
+    import dataclasses
+
+    limit, clause = time_step_limit(case.members, case.code)
+    check_time_step(time_step_s, limit, clause, case.fire.duration_min, case.analysis.standard_horizon_min, field)
+    return dataclasses.replace(case, analysis=dataclasses.replace(case.analysis, time_step_s=float(time_step_s)))
+
+
+def check_time_step(time_step_s, limit_s, clause, duration_min, horizon_min, field="analysis.time_step_s"):
+    """The time step must be > 0, within the clause limit, and not make an absurd grid."""
+    if not (isinstance(time_step_s, (int, float)) and not isinstance(time_step_s, bool)
+            and math.isfinite(time_step_s) and 0 < time_step_s <= limit_s):
+        raise InputError(field, time_step_s, f"must be > 0 and <= {limit_s:g} s ({clause})")
+    points = max(duration_min, horizon_min) * 60.0 / time_step_s
+    if points > MAX_GRID_POINTS:
+        raise InputError(field, time_step_s,
+                         f"gives {points:.3g} steps; at most {MAX_GRID_POINTS:.0e} (use a larger step)")
+
+
+def _read_fire(t: _Table | None, base_dir: Path) -> FireSpec:
+    if t is None:
+        raise InputError("fire", None, "is missing; needs at least curve and duration_min")
+    curve = t.string("curve", choices=CURVES)
+    duration = t.number("duration_min", "min", lo=0.0, lo_open=True, hi=MAX_DURATION_MIN)
+    hc = t.number("convection_coefficient", "W/(m2 K)", required=False, lo=1.0, hi=500.0)
+    file = None
+    if curve == "table":
+        name = t.string("file")
+        file = (base_dir / name)
+    elif t.has("file"):
+        raise InputError("fire.file", t.raw("file"), 'is only used with curve = "table"')
+    t.done()
+    return FireSpec(curve=curve, duration_min=duration, file=file, convection_coefficient=hc)
+
+
+def _read_analysis(data) -> AnalysisSettings:
+    t = _Table(data, "analysis")
+    step = t.number("time_step_s", "s", required=False, default=5.0, lo=0.0, lo_open=True, hi=300.0)
+    horizon = t.number("standard_horizon_min", "min", required=False, default=240.0, lo=1.0, hi=MAX_DURATION_MIN)
+    allow = t.boolean("allow_out_of_scope", default=False)
+    t.done()
+    return AnalysisSettings(time_step_s=step, standard_horizon_min=horizon, allow_out_of_scope=allow)
+
+
+def _read_compartment(data) -> Compartment:
+    t = _Table(data, "compartment")
+    af = t.number("floor_area_m2", "m2", lo=0.0, lo_open=True, hi=1e5)
+    h = t.number("height_m", "m", lo=0.0, lo_open=True, hi=100.0)
+    at = t.number("boundary_area_m2", "m2", lo=0.0, lo_open=True, hi=1e6)
+    b = t.number("thermal_inertia", "J/(m2 s^0.5 K)", required=False, lo=0.0, lo_open=True, hi=1e5)
+    ah = t.number("roof_opening_area_m2", "m2", required=False, default=0.0, lo=0.0, hi=1e6)
+    openings_raw = t.raw("opening", [])
+    surfaces_raw = t.raw("surface", [])
+    t.done()
+    if not isinstance(openings_raw, list) or not openings_raw:
+        raise InputError("compartment.opening", openings_raw or None, "needs at least one [[compartment.opening]]")
+    openings = []
+    for i, o in enumerate(openings_raw):
+        ot = _Table(o, f"compartment.opening[{i + 1}]")
+        w = ot.number("width_m", "m", lo=0.0, lo_open=True, hi=1000.0)
+        oh = ot.number("height_m", "m", lo=0.0, lo_open=True, hi=100.0)
+        n = ot.number("count", "-", required=False, default=1, lo=1, hi=10000, integer=True)
+        ot.done()
+        if oh > h:
+            raise InputError(f"compartment.opening[{i + 1}].height_m", oh,
+                             f"must not exceed the compartment height {h:g} m")
+        openings.append(Opening(w, oh, n))
+    if not isinstance(surfaces_raw, list):
+        raise InputError("compartment.surface", surfaces_raw, "must be an array of tables [[compartment.surface]]")
+    if b is not None and surfaces_raw:
+        raise InputError("compartment.thermal_inertia", b,
+                         "give thermal_inertia or [[compartment.surface]] tables, not both")
+    surfaces = []
+    for i, s in enumerate(surfaces_raw):
+        where = f"compartment.surface[{i + 1}]"
+        st = _Table(s, where)
+        area = st.number("area_m2", "m2", lo=0.0, lo_open=True, hi=1e6)
+        layers_raw = st.raw("layers")
+        st.done()
+        if not isinstance(layers_raw, list) or not layers_raw:
+            raise InputError(f"{where}.layers", layers_raw, "needs at least one layer table")
+        layers = []
+        for j, lr in enumerate(layers_raw):
+            lt = _Table(lr, f"{where}.layers[{j + 1}]")
+            layers.append(Layer(
+                thickness_m=lt.number("thickness_m", "m", lo=0.0, lo_open=True, hi=10.0),
+                density=lt.number("density", "kg/m3", lo=0.0, lo_open=True, hi=20000.0),
+                conductivity=lt.number("conductivity", "W/(m K)", lo=0.0, lo_open=True, hi=500.0),
+                specific_heat=lt.number("specific_heat", "J/(kg K)", lo=0.0, lo_open=True, hi=20000.0)))
+            lt.done()
+        surfaces.append(Surface(area, tuple(layers)))
+    area_openings = sum(o.area_m2 for o in openings)
+    if area_openings >= at:
+        raise InputError("compartment.boundary_area_m2", at,
+                         f"must exceed the total opening area {area_openings:g} m2")
+    if at < 2 * af:
+        raise InputError("compartment.boundary_area_m2", at,
+                         f"must be at least floor + ceiling = 2 x floor_area_m2 = {2 * af:g} m2")
+    return Compartment(floor_area_m2=af, height_m=h, boundary_area_m2=at, openings=tuple(openings),
+                       thermal_inertia=b, surfaces=tuple(surfaces), roof_opening_area_m2=ah)
+
+
+def _read_fire_load(data) -> FireLoad:
+    t = _Table(data, "fire_load")
+    qk = t.number("characteristic_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
+    qd = t.number("design_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
+    if (qk is None) == (qd is None):
+        raise InputError("fire_load.characteristic_MJ_m2", qk,
+                         "give characteristic_MJ_m2 or design_MJ_m2, exactly one of the two")
+    m = t.number("combustion_factor", "-", required=False, default=0.8, lo=0.0, lo_open=True, hi=1.0)
+    af_raw = t.raw("area_factor", "auto")
+    if isinstance(af_raw, str):
+        if af_raw != "auto":
+            raise InputError("fire_load.area_factor", af_raw, 'must be "auto" (EN 1991-1-2 Table E.1) or a number')
+        area_factor = "auto"
+    else:
+        area_factor = t.number("area_factor", "-", lo=0.0, lo_open=True, hi=5.0)
+    d2 = t.number("occupancy_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
+    dn = t.number("measures_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
+    growth = t.string("growth", required=False, default="medium", choices=GROWTHS)
+    t.done()
+    if qd is not None:
+        for key in ("combustion_factor", "area_factor", "occupancy_factor", "measures_factor"):
+            if key in data:
+                raise InputError(f"fire_load.{key}", data[key],
+                                 "is not used with design_MJ_m2 (already a design value); remove it")
+    return FireLoad(characteristic_MJ_m2=qk, design_MJ_m2=qd, combustion_factor=m, area_factor=area_factor,
+                    occupancy_factor=d2, measures_factor=dn, growth=growth)
+
+
+def _read_materials(data) -> dict:
+    if not isinstance(data, dict):
+        raise InputError("materials", data, "must be a table of named material tables")
+    out = {}
+    for name, md in data.items():
+        where = f"materials.{name}"
+        t = _Table(md, where)
+        rho = t.number("density", "kg/m3", lo=1.0, hi=5000.0)
+        cp = t.number("specific_heat", "J/(kg K)", lo=100.0, hi=10000.0)
+        moist = t.number("moisture_percent", "% of dry weight", required=False, default=0.0, lo=0.0, hi=50.0)
+        lam_raw = t.raw("conductivity")
+        t.done()
+        out[name] = Material(name=name, density=rho, conductivity=_read_conductivity(lam_raw, where),
+                             specific_heat=cp, moisture_percent=moist)
+    return out
+
+
+def _read_conductivity(v, where):
+    field_ = f"{where}.conductivity"
+    allowed = "a number > 0 and <= 10 [W/(m K)], or a table [[steel temperature C, W/(m K)], ...]"
+    if v is None:
+        raise InputError(field_, None, "is missing; " + allowed)
+    if isinstance(v, bool):
+        raise InputError(field_, v, allowed)
+    if isinstance(v, (int, float)):
+        if not (math.isfinite(v) and 0 < v <= 10.0):
+            raise InputError(field_, v, allowed)
+        return float(v)
+    if not isinstance(v, list) or not v:
+        raise InputError(field_, v, allowed)
+    pairs = []
+    for i, pt in enumerate(v):
+        if (not isinstance(pt, list) or len(pt) != 2
+                or any(isinstance(x, bool) or not isinstance(x, (int, float)) for x in pt)):
+            raise InputError(f"{field_}[{i + 1}]", pt, "must be a pair [steel temperature C, conductivity W/(m K)]")
+        th, lam = float(pt[0]), float(pt[1])
+        if not (0.0 <= th <= 1200.0):
+            raise InputError(f"{field_}[{i + 1}]", pt, "steel temperature must be between 0 and 1200 C")
+        if not (0.0 < lam <= 10.0):
+            raise InputError(f"{field_}[{i + 1}]", pt, "conductivity must be > 0 and <= 10 W/(m K)")
+        if pairs and th <= pairs[-1][0]:
+            raise InputError(f"{field_}[{i + 1}]", pt, "steel temperatures must increase strictly")
+        pairs.append((th, lam))
+    if len(pairs) > 64:
+        raise InputError(field_, f"{len(pairs)} points", "at most 64 points")
+    return tuple(pairs)
+
+
+def _read_member(data, index, materials, code) -> Member:
+    name_guess = data.get("name") if isinstance(data, dict) else None
+    where = f"member[{index}]" + (f" ({name_guess})" if isinstance(name_guess, str) else "")
+    t = _Table(data, where)
+    name = t.string("name")
+    if not name.strip():
+        raise InputError(f"{where}.name", name, "must not be empty")
+    kind = t.string("kind", required=False, default="beam", choices=KINDS)
+    restrained = t.boolean("laterally_restrained", default=None)
+    if restrained is not None and kind != "beam":
+        raise InputError(f"{where}.laterally_restrained", restrained, "applies to beams only (kind = \"beam\")")
+    mu = t.number("utilisation", "-", required=False, lo=0.013, hi=1.0)
+    if mu is not None and mu >= 1.0:
+        raise InputError(f"{where}.utilisation", mu, "must be >= 0.013 and < 1 (EN 1993-1-2 eq (4.22))")
+    tcr = t.number("critical_temperature_C", "C", required=False, lo=20.0, lo_open=True, hi=1200.0)
+    if (mu is None) == (tcr is None):
+        raise InputError(f"{where}.utilisation", mu, "give utilisation or critical_temperature_C, exactly one")
+    protection = t.string("protection", required=False)
+    thickness = t.number("thickness_mm", "mm", required=False, lo=0.0, lo_open=True, hi=300.0)
+    if protection is not None:
+        if protection not in materials:
+            known = ", ".join(sorted(materials)) or "none defined"
+            raise InputError(f"{where}.protection", protection, f"must name a [materials] table ({known})")
+        if thickness is None:
+            raise InputError(f"{where}.thickness_mm", None, "is missing; a protected member needs its thickness [mm]")
+    elif thickness is not None:
+        raise InputError(f"{where}.thickness_mm", thickness, "needs protection = a [materials] name")
+    sf_lo = code["section_factor_min_bare_per_m"] if protection is None else 1.0
+    clause = " (EN 1993-1-2 4.2.5.1(1) for bare steel)" if protection is None else ""
+    am_v = t.number("section_factor_per_m", "1/m", lo=0.0, lo_open=True, hi=1000.0)
+    if am_v < sf_lo:
+        raise InputError(f"{where}.section_factor_per_m", am_v, f"must be >= {sf_lo:g} 1/m{clause}")
+    ksh = t.number("shadow_factor", "-", required=False, lo=0.0, lo_open=True, hi=1.0)
+    if ksh is not None and protection is not None:
+        raise InputError(f"{where}.shadow_factor", ksh, "applies to bare steel only (EN 1993-1-2 4.2.5.1)")
+    req = t.number("required_minutes", "min", required=False, lo=0.0, lo_open=True, hi=MAX_DURATION_MIN)
+    t.done()
+    return Member(name=name, kind=kind, section_factor_per_m=am_v, utilisation=mu, critical_temperature_C=tcr,
+                  protection=protection, thickness_mm=thickness, required_minutes=req, shadow_factor=ksh,
+                  laterally_restrained=restrained)

@@ -1,0 +1,111 @@
+"""Command line: ``steelfire check CASE [--json] [--time-step-s S]``.
+
+A thin layer over the Python API: it loads the case, runs it and prints. Exit codes: 0 every
+member passes and meets its period, 1 some member does not, 2 bad input.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+EXIT_OK, EXIT_FAIL, EXIT_INPUT = 0, 1, 2
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # one line, exit 2, no usage dump
+        sys.stderr.write(f"steelfire: error: {message} (see steelfire --help)\n")
+        raise SystemExit(EXIT_INPUT)
+
+
+def _parser():
+    p = _Parser(prog="steelfire",
+                description="Fire resistance of steel members: design fire, steel temperatures, verdicts.")
+    from . import __version__
+
+    p.add_argument("--version", action="version", version=f"steelfire {__version__}")
+    sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
+    c = sub.add_parser("check", help="check every member of a case against its critical temperature")
+    c.add_argument("case", help="case file (TOML)")
+    c.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
+    c.add_argument("--time-step-s", type=float, default=None, metavar="S",
+                   help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
+    return p
+
+
+def _fmt(v, spec, none="-"):
+    return none if v is None else format(v, spec)
+
+
+def render_table(result) -> str:
+    """The terminal summary: the design fire, one row per member, warnings, cautions."""
+    f = result.fire
+    lines = [f"steelfire check: {result.title}", ""]
+    fire_bits = [f"design fire: {f.curve}", f"peak gas {f.peak_gas_temperature_C:.1f} C at {f.time_of_peak_gas_min:.1f} min",
+                 f"duration {f.duration_min:g} min"]
+    if f.regime:
+        fire_bits.append(f"{f.regime}-controlled")
+    lines.append(", ".join(fire_bits))
+    if f.opening_factor_m05 is not None:
+        lines.append(f"  O = {f.opening_factor_m05:.4f} m^0.5, b = {f.thermal_inertia:.0f} J/(m2 s^0.5 K), "
+                     f"q_f,d = {f.design_fire_load_MJ_m2:.1f} MJ/m2, q_t,d = {f.total_area_fire_load_MJ_m2:.1f} MJ/m2")
+    if f.gamma is not None:
+        extra = f", Gamma_lim = {f.gamma_lim:.4g}" if f.gamma_lim is not None else ""
+        extra += f", k = {f.k_factor:.4g}" if f.k_factor is not None else ""
+        lines.append(f"  Gamma = {f.gamma:.4g}{extra}, t_lim = {f.t_lim_min:g} min, t_max = {f.t_max_min:.1f} min")
+    lines.append("")
+    head = ["member", "kind", "section factor [1/m]", "protection", "d_p [mm]", "theta_cr [C]",
+            "peak steel [C]", "at [min]", "margin [C]", "design fire", "R std [min]", "required [min]", "period"]
+    rows = []
+    for m in result.members:
+        rows.append([
+            m.name, m.kind, f"{m.section_factor_per_m:g}", m.protection or "bare", _fmt(m.thickness_mm, "g"),
+            f"{m.critical_temperature_C:.1f}", f"{m.peak_steel_temperature_C:.1f}", f"{m.time_of_peak_steel_min:.1f}",
+            f"{m.margin_C:+.1f}", "PASS" if m.passes else "FAIL",
+            _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
+            _fmt(m.required_minutes, "g"),
+            {None: "-", True: "meets", False: "SHORT"}[m.meets_required_period]])
+    widths = [max(len(h), *(len(r[j]) for r in rows)) for j, h in enumerate(head)]
+    lines.append("  ".join(h.ljust(w) for h, w in zip(head, widths)))
+    lines.append("  ".join("-" * w for w in widths))
+    for r in rows:
+        lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)))
+    n_ok = sum(m.ok for m in result.members)
+    lines += ["", f"{n_ok} of {len(result.members)} members pass the design fire and meet their required period."]
+    if result.out_of_scope:
+        lines += ["", "*** COMPUTED OUTSIDE THE SCOPE OF THE METHOD (analysis.allow_out_of_scope = true) ***"]
+    if result.warnings:
+        lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
+    from .analysis import CAUTIONS_LINE
+
+    lines += ["", CAUTIONS_LINE]
+    return "\n".join(lines)
+
+
+def _run_check(args) -> int:
+    from . import analyse, load_case
+    from .case import with_time_step
+
+    case = load_case(args.case)
+    if args.time_step_s is not None:
+        case = with_time_step(case, args.time_step_s)
+    result = analyse(case, histories=False)
+    if args.json:
+        sys.stdout.write(json.dumps(result.to_dict(), indent=2, allow_nan=False) + "\n")
+    else:
+        sys.stdout.write(render_table(result) + "\n")
+    return EXIT_OK if result.all_ok else EXIT_FAIL
+
+
+def main(argv=None) -> int:
+    from .errors import InputError
+
+    args = _parser().parse_args(argv)
+    try:
+        if args.command == "check":
+            return _run_check(args)
+    except InputError as exc:
+        sys.stderr.write(f"steelfire: error: {exc}\n")
+        return EXIT_INPUT
+    return EXIT_INPUT

@@ -1,0 +1,3 @@
+"""Design fires: nominal curves, the Annex A parametric fire, compartment quantities, fire loads."""
+
+from . import compartment, fireload, nominal, parametric, tabulated  # noqa: F401

@@ -1,0 +1,56 @@
+"""Design fire load density, EN 1991-1-2 Annex E, and the fire growth rate of Annex A."""
+
+from __future__ import annotations
+
+import math
+
+from ..codevalues import DEFAULTS
+from ..errors import InputError
+
+#: Floor areas [m2] of the rows of EN 1991-1-2 Table E.1 and the code-value names of delta_q1.
+AREA_FACTOR_ROWS = (
+    (25.0, "delta_q1_25m2"),
+    (250.0, "delta_q1_250m2"),
+    (2500.0, "delta_q1_2500m2"),
+    (5000.0, "delta_q1_5000m2"),
+    (10000.0, "delta_q1_10000m2"),
+)
+
+#: Growth rate -> code-value name of t_lim, EN 1991-1-2 Annex A (10) (slow 25, medium 20, fast 15 min).
+GROWTH_TLIM = {"slow": "t_lim_slow_min", "medium": "t_lim_medium_min", "fast": "t_lim_fast_min"}
+
+
+def area_factor(floor_area_m2: float, code=DEFAULTS) -> float:
+    """delta_q1 [-], the fire activation risk due to the size of the compartment, EN 1991-1-2 Table E.1.
+
+    Between the rows of the table, delta_q1 is interpolated linearly in log10(A_f) (the rows are a
+    decade apart in area, and the table gives no interpolation rule: common practice, no source); below
+    25 m2 and above 10 000 m2 the end rows are held.
+    """
+    if not floor_area_m2 > 0:
+        raise InputError("compartment.floor_area_m2", floor_area_m2, "must be > 0 [m2]")
+    rows = [(a, float(code[name])) for a, name in AREA_FACTOR_ROWS]
+    if floor_area_m2 <= rows[0][0]:
+        return rows[0][1]
+    if floor_area_m2 >= rows[-1][0]:
+        return rows[-1][1]
+    for (a0, d0), (a1, d1) in zip(rows, rows[1:]):
+        if floor_area_m2 <= a1:
+            r = (math.log10(floor_area_m2) - math.log10(a0)) / (math.log10(a1) - math.log10(a0))
+            return d0 + r * (d1 - d0)
+    raise AssertionError("unreachable")
+
+
+def design_fire_load(characteristic_MJ_m2: float, combustion_factor: float, area_factor_: float,
+                     occupancy_factor: float, measures_factor: float) -> float:
+    """q_f,d = q_f,k m delta_q1 delta_q2 delta_n [MJ/m2 of floor], EN 1991-1-2 Annex E, eq (E.1)."""
+    return characteristic_MJ_m2 * combustion_factor * area_factor_ * occupancy_factor * measures_factor
+
+
+def fire_growth_t_lim_h(growth: str, code=DEFAULTS) -> float:
+    """t_lim [h] for a fire growth rate, EN 1991-1-2 Annex A (10) with Table E.5 growth rates."""
+    try:
+        name = GROWTH_TLIM[growth]
+    except KeyError:
+        raise InputError("fire_load.growth", growth, "must be one of slow, medium, fast") from None
+    return float(code[name]) / 60.0

@@ -1,0 +1,180 @@
+"""Parametric temperature-time curve of a compartment fire, EN 1991-1-2 Annex A.
+
+Times are in hours inside the formulas, as in the standard, and in seconds at the interface.
+Paragraph and equation numbers of Annex A are quoted from memory of EN 1991-1-2:2002.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..codevalues import DEFAULTS
+from ..errors import InputError
+
+#: Reference ratio O/b of eq (A.2b) that gives Gamma = 1: 0.04 / 1160.
+GAMMA_REFERENCE = 0.04 / 1160.0
+
+
+@dataclass(frozen=True)
+class ParametricFire:
+    """An Annex A design fire with its intermediate values (all as the standard names them)."""
+
+    opening_factor_m05: float        # O [m^0.5]
+    thermal_inertia: float           # b [J/(m2 s^0.5 K)]
+    total_area_fire_load_MJ_m2: float  # q_t,d [MJ/m2 of A_t]
+    t_lim_h: float                   # t_lim [h]
+    gamma: float                     # Gamma [-], eq (A.2b)
+    gamma_lim: float | None          # Gamma_lim [-] (times k), eq (A.6), fuel-controlled fires only
+    k_factor: float | None           # k [-], eq (A.8), where it applies
+    regime: str                      # "ventilation" | "fuel"
+    t_max_h: float                   # t_max [h], eq (A.4)
+    t_star_max_h: float              # t*_max of the cooling phase [h]: (0.2e-3 q_t,d / O) Gamma
+    x_factor: float                  # x [-] of the cooling phase
+    peak_gas_temperature_C: float    # theta_max [C]
+    cooling_rate_C_h: float          # d theta / d t* in the cooling phase [C per hour of t*]
+    burnout_time_h: float            # time the gas is back at 20 C [h]
+
+    @property
+    def t_max_s(self) -> float:
+        return self.t_max_h * 3600.0
+
+    @property
+    def burnout_time_s(self) -> float:
+        return self.burnout_time_h * 3600.0
+
+    @property
+    def regime_ratio(self) -> float:
+        """(0.2e-3 q_t,d / O) / t_lim: below 1 fuel-controlled, above 1 ventilation-controlled."""
+        return (0.2e-3 * self.total_area_fire_load_MJ_m2 / self.opening_factor_m05) / self.t_lim_h
+
+    def gas_temperature(self, time_s):
+        """Gas temperature [C] at ``time_s`` [s]: heating eq (A.1), cooling eq (A.11); never below 20 C."""
+        t_h = np.asarray(time_s, dtype=float) / 3600.0
+        heating_gamma = self.gamma if self.regime == "ventilation" else self.gamma_lim
+        heat = heating_curve(np.maximum(t_h, 0.0) * heating_gamma)
+        cool = self.peak_gas_temperature_C - self.cooling_rate_C_h * (
+            self.gamma * t_h - self.t_star_max_h * self.x_factor)
+        out = np.where(t_h <= self.t_max_h, heat, cool)
+        return np.maximum(out, 20.0)
+
+
+def heating_curve(t_star_h):
+    """theta_g = 20 + 1325 (1 - 0.324 e^(-0.2 t*) - 0.204 e^(-1.7 t*) - 0.472 e^(-19 t*)) [C], eq (A.1).
+
+    ``t_star_h`` is the fictitious time t* = t Gamma [h] (eq (A.2a)), or t Gamma_lim (eq (A.5)).
+    """
+    ts = np.asarray(t_star_h, dtype=float)
+    return 20.0 + 1325.0 * (1.0 - 0.324 * np.exp(-0.2 * ts) - 0.204 * np.exp(-1.7 * ts)
+                            - 0.472 * np.exp(-19.0 * ts))
+
+
+def gamma_factor(opening_factor_m05: float, thermal_inertia: float) -> float:
+    """Gamma = (O/b)^2 / (0.04/1160)^2 [-], EN 1991-1-2 eq (A.2b)."""
+    return (opening_factor_m05 / thermal_inertia) ** 2 / GAMMA_REFERENCE ** 2
+
+
+def k_factor(opening_factor_m05: float, total_area_fire_load_MJ_m2: float, thermal_inertia: float) -> float | None:
+    """k = 1 + ((O - 0.04)/0.04)((q_t,d - 75)/75)((1160 - b)/1160) [-], EN 1991-1-2 eq (A.8).
+
+    Applies only where O > 0.04, q_t,d < 75 and b < 1160; None elsewhere.
+    """
+    o, q, b = opening_factor_m05, total_area_fire_load_MJ_m2, thermal_inertia
+    if o > 0.04 and q < 75.0 and b < 1160.0:
+        return 1.0 + ((o - 0.04) / 0.04) * ((q - 75.0) / 75.0) * ((1160.0 - b) / 1160.0)
+    return None
+
+
+def cooling_rate(t_star_max_h: float) -> float:
+    """Rate of the cooling phase [C per hour of t*], EN 1991-1-2 eq (A.11a)-(A.11c).
+
+    625 for t*_max <= 0.5; 250 (3 - t*_max) for 0.5 < t*_max < 2; 250 for t*_max >= 2.
+    """
+    if t_star_max_h <= 0.5:
+        return 625.0
+    if t_star_max_h < 2.0:
+        return 250.0 * (3.0 - t_star_max_h)
+    return 250.0
+
+
+def scope_violations(opening_factor_m05, thermal_inertia, total_area_fire_load_MJ_m2, floor_area_m2,
+                     height_m, roof_opening_area_m2, code=DEFAULTS):
+    """The limits of EN 1991-1-2 Annex A (1)-(3), (4) a case breaks, as (field, value, allowed) triples.
+
+    Scope: 0.02 <= O <= 0.20, 100 <= b <= 2200, 50 <= q_t,d <= 1000 MJ/m2, A_f <= 500 m2, H <= 4 m,
+    no openings in the roof; mainly cellulosic fire load (stated in the outputs, not checkable).
+    """
+    c = code
+    out = []
+
+    def between(field, value, lo, hi, unit):
+        if not (lo <= value <= hi):
+            out.append((field, value, f"Annex A covers {lo:g} to {hi:g} {unit}"))
+
+    between("opening factor O", round(opening_factor_m05, 5), c["annex_a_opening_factor_min"],
+            c["annex_a_opening_factor_max"], "m^0.5")
+    between("thermal inertia b", round(thermal_inertia, 2), c["annex_a_thermal_inertia_min"],
+            c["annex_a_thermal_inertia_max"], "J/(m2 s^0.5 K)")
+    between("fire load q_t,d", round(total_area_fire_load_MJ_m2, 3), c["annex_a_fire_load_min_MJ_m2"],
+            c["annex_a_fire_load_max_MJ_m2"], "MJ/m2")
+    if floor_area_m2 is not None and floor_area_m2 > c["annex_a_floor_area_max_m2"]:
+        out.append(("compartment.floor_area_m2", floor_area_m2,
+                    f"Annex A covers floor areas up to {c['annex_a_floor_area_max_m2']:g} m2"))
+    if height_m is not None and height_m > c["annex_a_height_max_m"]:
+        out.append(("compartment.height_m", height_m,
+                    f"Annex A covers heights up to {c['annex_a_height_max_m']:g} m"))
+    if roof_opening_area_m2:
+        out.append(("compartment.roof_opening_area_m2", roof_opening_area_m2,
+                    "Annex A covers compartments without openings in the roof (0 m2)"))
+    return out
+
+
+def parametric_fire(opening_factor_m05: float, thermal_inertia: float, total_area_fire_load_MJ_m2: float,
+                    t_lim_h: float) -> ParametricFire:
+    """The Annex A fire of a compartment, heating and cooling, both regimes.
+
+    EN 1991-1-2 Annex A: Gamma eq (A.2b); t_max = max(0.2e-3 q_t,d / O, t_lim) eq (A.4); where
+    t_max = t_lim the fire is fuel-controlled and heats with t* = t Gamma_lim (eq (A.5)-(A.7),
+    O_lim = 0.1e-3 q_t,d / t_lim), Gamma_lim times k where eq (A.8) applies; the cooling phase
+    (A.11) always uses t* = t Gamma, t*_max = (0.2e-3 q_t,d / O) Gamma and x = 1 (t_max > t_lim)
+    or x = t_lim Gamma / t*_max (t_max = t_lim).
+
+    Scope is checked by :func:`scope_violations`; a k factor <= 0 (near the corner of the scope:
+    high O, low q_t,d, low b) is always refused, as the heating phase would not exist.
+    """
+    o, b, q = opening_factor_m05, thermal_inertia, total_area_fire_load_MJ_m2
+    for field, v in (("opening factor O", o), ("thermal inertia b", b), ("fire load q_t,d", q), ("t_lim", t_lim_h)):
+        if not (isinstance(v, (int, float)) and math.isfinite(v) and v > 0):
+            raise InputError(field, v, "must be a finite number > 0")
+    gamma = gamma_factor(o, b)
+    t_vent_h = 0.2e-3 * q / o
+    k = None
+    gamma_lim = None
+    if t_vent_h > t_lim_h:
+        regime = "ventilation"
+        t_max_h = t_vent_h
+        x = 1.0
+        theta_max = float(heating_curve(t_max_h * gamma))
+    else:
+        regime = "fuel"
+        t_max_h = t_lim_h
+        o_lim = 0.1e-3 * q / t_lim_h
+        gamma_lim = gamma_factor(o_lim, b)
+        k = k_factor(o, q, b)
+        if k is not None:
+            if k <= 0.0:
+                raise InputError("k factor of EN 1991-1-2 eq (A.8)", round(k, 4),
+                                 "must be > 0; this O, q_t,d and b lie outside what Annex A can describe")
+            gamma_lim *= k
+        x = t_lim_h * gamma / (t_vent_h * gamma)
+        theta_max = float(heating_curve(t_lim_h * gamma_lim))
+    t_star_max = t_vent_h * gamma
+    rate = cooling_rate(t_star_max)
+    burnout_h = (t_star_max * x + (theta_max - 20.0) / rate) / gamma
+    return ParametricFire(
+        opening_factor_m05=o, thermal_inertia=b, total_area_fire_load_MJ_m2=q, t_lim_h=t_lim_h,
+        gamma=gamma, gamma_lim=gamma_lim, k_factor=k, regime=regime, t_max_h=t_max_h,
+        t_star_max_h=t_star_max, x_factor=x, peak_gas_temperature_C=theta_max, cooling_rate_C_h=rate,
+        burnout_time_h=burnout_h)

@@ -1,0 +1,74 @@
+"""A gas temperature-time curve given as a table (measured or from a fire model), read from CSV."""
+
+from __future__ import annotations
+
+import csv
+import math
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import InputError
+
+COLUMNS = ("time_min", "temperature_C")
+
+
+@dataclass(frozen=True)
+class TabulatedFire:
+    """Gas temperature linear between the points of a table; held at its last value past the end."""
+
+    time_s: np.ndarray
+    temperature_C: np.ndarray
+    source: str
+
+    def gas_temperature(self, time_s):
+        """Gas temperature [C] at ``time_s`` [s], linear between the tabulated points."""
+        return np.interp(np.asarray(time_s, dtype=float), self.time_s, self.temperature_C)
+
+
+def read_curve_csv(path, field: str = "fire.file") -> TabulatedFire:
+    """Read a CSV with a header ``time_min,temperature_C``; times strictly increasing from 0 min.
+
+    Temperatures must lie between 0 and 1500 C. Errors name the file, the row and the column.
+    """
+    p = Path(path)
+    if not p.is_file():
+        raise InputError(field, str(path), "must name an existing CSV file (relative to the case file)")
+    try:
+        with p.open(newline="", encoding="utf-8-sig") as fh:
+            rows = list(csv.reader(fh))
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(field, str(path), f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})") from None
+    rows = [r for r in rows if r and not r[0].lstrip().startswith("#") and any(c.strip() for c in r)]
+    if not rows:
+        raise InputError(field, str(path), "is empty; needs a header time_min,temperature_C and rows")
+    header = [c.strip() for c in rows[0]]
+    if header[:2] != list(COLUMNS):
+        raise InputError(f"{p.name} header", ",".join(header), "must be time_min,temperature_C")
+    times, temps = [], []
+    for i, row in enumerate(rows[1:], start=2):
+        if len(row) < 2:
+            raise InputError(f"{p.name} row {i}", ",".join(row), "needs two columns time_min,temperature_C")
+        vals = []
+        for col, cell in zip(COLUMNS, row[:2]):
+            try:
+                v = float(cell)
+            except ValueError:
+                raise InputError(f"{p.name} row {i} {col}", cell.strip(), "must be a number") from None
+            if not math.isfinite(v):
+                raise InputError(f"{p.name} row {i} {col}", cell.strip(), "must be a finite number")
+            vals.append(v)
+        t, theta = vals
+        if times and t <= times[-1]:
+            raise InputError(f"{p.name} row {i} time_min", t,
+                             f"times must increase strictly (previous row {times[-1]:g} min)")
+        if not times and t != 0.0:
+            raise InputError(f"{p.name} row {i} time_min", t, "the first row must be at 0 min")
+        if not (0.0 <= theta <= 1500.0):
+            raise InputError(f"{p.name} row {i} temperature_C", theta, "must be between 0 and 1500 C")
+        times.append(t)
+        temps.append(theta)
+    if len(times) < 2:
+        raise InputError(field, str(path), "needs at least two data rows")
+    return TabulatedFire(np.array(times) * 60.0, np.array(temps), p.name)

@@ -1,0 +1,639 @@
+"""Cross-section geometry and section factors of steel members in fire.
+
+The section factor is the heated perimeter per unit length over the cross-section area, in 1/m:
+
+* ``Am/V`` of an unprotected member, EN 1993-1-2 4.2.5.1 and Table 4.2;
+* ``Ap/V`` of a protected member, EN 1993-1-2 4.2.5.2 and Table 4.3, where ``Ap`` is the inner
+  surface of the protection per unit length: the steel contour for a contour (profile) encasement,
+  the enclosing box for a box (hollow) encasement.
+
+Both are the same geometric ratio here; which one it is depends on how the caller uses it (a bare
+member takes ``encasement="profile"``, with the shadow factor of :func:`shadow_factor`; a protected
+member takes the encasement of its protection).
+
+Units: dimensions are stored in millimetres (``*_mm``, as in the section tables); areas and
+perimeters are returned in mm2 / mm or m2 / m according to the suffix; section factors in 1/m.
+
+Shapes
+------
+:class:`ISection`
+    Doubly symmetric rolled I/H section with root radius ``r_mm`` between web and flanges, or a
+    welded I section (``r_mm = 0``; a weld throat is recorded but ignored in the geometry).
+:class:`RectangularHollowSection`
+    RHS / SHS with rounded corners (outer and inner corner radii; rules in :func:`rhs_section`).
+:class:`CircularHollowSection`
+    CHS.
+
+Standard rolled profiles (IPE, HEA, HEB; EN 10365) come from :func:`catalogue_section`. The
+catalogue values were entered from memory and must be checked against the standard before design
+use (see the header of ``data/sections_en10365.csv``).
+"""
+
+from __future__ import annotations
+
+import csv
+import difflib
+import io
+import math
+import numbers
+import re
+from dataclasses import dataclass, field
+from functools import lru_cache
+from importlib import resources
+from typing import Optional, Union
+
+from steelfire.errors import InputError
+
+__all__ = [
+    "EXPOSURES",
+    "ENCASEMENTS",
+    "CATALOGUE_FILE",
+    "ISection",
+    "RectangularHollowSection",
+    "CircularHollowSection",
+    "Section",
+    "rolled_i_section",
+    "welded_i_section",
+    "rhs_section",
+    "rhs_corner_radii_mm",
+    "chs_section",
+    "catalogue_section",
+    "catalogue_names",
+    "heated_perimeter_m",
+    "section_factor_per_m",
+    "box_section_factor_per_m",
+    "shadow_factor",
+]
+
+EXPOSURES = ("4-sided", "3-sided")
+"""Fire exposure: all round, or three sides with the top face against a slab (EN 1993-1-2 Tables 4.2, 4.3)."""
+
+ENCASEMENTS = ("profile", "box")
+"""Heated boundary: the steel contour (profile), or the enclosing box (EN 1993-1-2 Tables 4.2, 4.3)."""
+
+CATALOGUE_FILE = "sections_en10365.csv"
+"""Data file under ``steelfire/data``: IPE, HEA, HEB dimensions after EN 10365 (entered from memory)."""
+
+_FILLET_AREA_FACTOR = 4.0 - math.pi
+"""Area of the four root fillets of an I section over r^2: 4 (r^2 - pi r^2 / 4) = (4 - pi) r^2."""
+
+_FILLET_PERIMETER_FACTOR = 2.0 * math.pi - 8.0
+"""Change of contour by the four fillets over r: 4 (pi r / 2 - 2 r) = (2 pi - 8) r."""
+
+
+# --------------------------------------------------------------------------------------------
+# validation helpers (used once, at construction)
+# --------------------------------------------------------------------------------------------
+
+
+def _number(field_name: str, value, *, positive: bool = True) -> float:
+    """Return ``value`` as a finite float, > 0 (or >= 0 when ``positive`` is False)."""
+    allowed = "a finite number > 0 [mm]" if positive else "a finite number >= 0 [mm]"
+    if isinstance(value, bool) or not isinstance(value, numbers.Real):
+        raise InputError(field_name, value, allowed)
+    x = float(value)
+    if not math.isfinite(x) or (x <= 0.0 if positive else x < 0.0):
+        raise InputError(field_name, value, allowed)
+    return x
+
+
+def _choice(field_name: str, value, allowed: tuple[str, ...]) -> str:
+    if not isinstance(value, str) or value not in allowed:
+        raise InputError(field_name, value, "one of " + ", ".join(repr(a) for a in allowed))
+    return value
+
+
+def _name(value) -> str:
+    if not isinstance(value, str):
+        raise InputError("name", value, "a string")
+    return value
+
+
+def _optional_positive(field_name: str, value) -> Optional[float]:
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, numbers.Real):
+        raise InputError(field_name, value, "a finite number > 0, or None")
+    x = float(value)
+    if not math.isfinite(x) or x <= 0.0:
+        raise InputError(field_name, value, "a finite number > 0, or None")
+    return x
+
+
+# --------------------------------------------------------------------------------------------
+# shapes
+# --------------------------------------------------------------------------------------------
+
+
+class _SI:
+    """SI views of the millimetre geometry, shared by the shapes."""
+
+    __slots__ = ()
+
+    @property
+    def area_m2(self) -> float:
+        """Cross-section area [m2]."""
+        return self.area_mm2 * 1e-6
+
+    @property
+    def perimeter_m(self) -> float:
+        """Steel (outer) contour per unit length [m = m2/m]."""
+        return self.perimeter_mm * 1e-3
+
+
+@dataclass(frozen=True)
+class ISection(_SI):
+    """Doubly symmetric I or H section, rolled (root radius) or welded (no root radius).
+
+    Parameters
+    ----------
+    h_mm : float
+        Overall depth h [mm].
+    b_mm : float
+        Flange width b [mm].
+    tw_mm : float
+        Web thickness tw [mm].
+    tf_mm : float
+        Flange thickness tf [mm].
+    r_mm : float
+        Root radius r between web and flanges [mm]; 0 for a welded section. The four fillets add
+        (4 - pi) r^2 to the area and change the contour by (2 pi - 8) r.
+    name : str
+        Label, e.g. ``"HEB 300"``; empty for a user-defined section.
+    fabrication : str
+        ``"rolled"`` or ``"welded"``.
+    weld_throat_mm : float
+        Throat of the web-to-flange fillet welds of a welded section [mm]; recorded only, the weld
+        metal is ignored in the area and the perimeter.
+    tabulated_area_cm2, mass_kg_m, tabulated_perimeter_m2_m : float or None
+        Catalogue values, kept for reference; the geometry functions always compute from the
+        dimensions.
+
+    Raises
+    ------
+    InputError
+        A dimension that is not a finite positive number, or dimensions that do not form an I
+        section (flanges overlapping, web wider than the flanges, fillets that do not fit).
+    """
+
+    h_mm: float
+    b_mm: float
+    tw_mm: float
+    tf_mm: float
+    r_mm: float = 0.0
+    name: str = ""
+    fabrication: str = "rolled"
+    weld_throat_mm: float = 0.0
+    tabulated_area_cm2: Optional[float] = field(default=None, compare=False)
+    mass_kg_m: Optional[float] = field(default=None, compare=False)
+    tabulated_perimeter_m2_m: Optional[float] = field(default=None, compare=False)
+
+    #: an I section is not convex: the shadow effect applies (EN 1993-1-2 4.2.5.1(2))
+    convex = False
+
+    def __post_init__(self) -> None:
+        h = _number("h_mm", self.h_mm)
+        b = _number("b_mm", self.b_mm)
+        tw = _number("tw_mm", self.tw_mm)
+        tf = _number("tf_mm", self.tf_mm)
+        r = _number("r_mm", self.r_mm, positive=False)
+        throat = _number("weld_throat_mm", self.weld_throat_mm, positive=False)
+        _name(self.name)
+        _choice("fabrication", self.fabrication, ("rolled", "welded"))
+        if 2.0 * tf >= h:
+            raise InputError("tf_mm", self.tf_mm, f"< h_mm / 2 = {h / 2:g} (the flanges overlap)")
+        if tw >= b:
+            raise InputError("tw_mm", self.tw_mm, f"< b_mm = {b:g} (web wider than the flanges)")
+        r_max = min((b - tw) / 2.0, (h - 2.0 * tf) / 2.0)
+        if r > r_max:
+            raise InputError(
+                "r_mm", self.r_mm,
+                f"<= min((b_mm - tw_mm) / 2, (h_mm - 2 tf_mm) / 2) = {r_max:g} (fillets must fit)")
+        if self.fabrication == "welded" and r > 0.0:
+            raise InputError("r_mm", self.r_mm, "0 for a welded section (no root radius)")
+        for name, value in (("h_mm", h), ("b_mm", b), ("tw_mm", tw), ("tf_mm", tf),
+                            ("r_mm", r), ("weld_throat_mm", throat)):
+            object.__setattr__(self, name, value)
+        for name in ("tabulated_area_cm2", "mass_kg_m", "tabulated_perimeter_m2_m"):
+            object.__setattr__(self, name, _optional_positive(name, getattr(self, name)))
+
+    @property
+    def area_mm2(self) -> float:
+        """Cross-section area [mm2]: A = 2 b tf + (h - 2 tf) tw + (4 - pi) r^2."""
+        return (2.0 * self.b_mm * self.tf_mm + (self.h_mm - 2.0 * self.tf_mm) * self.tw_mm
+                + _FILLET_AREA_FACTOR * self.r_mm ** 2)
+
+    @property
+    def perimeter_mm(self) -> float:
+        """Steel contour [mm]: P = 4 b + 2 h - 2 tw + (2 pi - 8) r.
+
+        Without fillets the contour is 2 b (outer flange faces) + 4 tf (flange tips)
+        + 2 (b - tw) (inner flange faces) + 2 (h - 2 tf) (web faces) = 4 b + 2 h - 2 tw; each fillet
+        replaces two straight legs of length r by a quarter arc pi r / 2.
+        """
+        return (4.0 * self.b_mm + 2.0 * self.h_mm - 2.0 * self.tw_mm
+                + _FILLET_PERIMETER_FACTOR * self.r_mm)
+
+    def _heated_perimeter_mm(self, exposure: str, encasement: str) -> float:
+        if encasement == "profile":
+            # 3-sided: the top face of the top flange (width b) lies against the slab.
+            return self.perimeter_mm - (self.b_mm if exposure == "3-sided" else 0.0)
+        # box: 2 (b + h) all round, 2 h + b with the top against the slab
+        return 2.0 * self.h_mm + (2.0 if exposure == "4-sided" else 1.0) * self.b_mm
+
+
+@dataclass(frozen=True)
+class RectangularHollowSection(_SI):
+    """Rectangular (or square) hollow section with rounded corners.
+
+    Parameters
+    ----------
+    h_mm : float
+        Overall depth h [mm] (the faces of width b are top and bottom).
+    b_mm : float
+        Overall width b [mm]; with 3-sided exposure the top face of width b lies against the slab.
+    t_mm : float
+        Wall thickness t [mm].
+    outer_radius_mm, inner_radius_mm : float
+        Corner radii r_o and r_i [mm]; :func:`rhs_section` sets them from the forming rule.
+    name : str
+        Label.
+
+    Raises
+    ------
+    InputError
+        A dimension that is not a finite positive number (radii may be 0), a wall too thick for the
+        section, or radii that do not fit.
+    """
+
+    h_mm: float
+    b_mm: float
+    t_mm: float
+    outer_radius_mm: float
+    inner_radius_mm: float
+    name: str = ""
+
+    #: convex: no shadow effect, k_sh = 1 (EN 1993-1-2 4.2.5.1(2))
+    convex = True
+
+    def __post_init__(self) -> None:
+        h = _number("h_mm", self.h_mm)
+        b = _number("b_mm", self.b_mm)
+        t = _number("t_mm", self.t_mm)
+        ro = _number("outer_radius_mm", self.outer_radius_mm, positive=False)
+        ri = _number("inner_radius_mm", self.inner_radius_mm, positive=False)
+        _name(self.name)
+        side = min(h, b)
+        if 2.0 * t >= side:
+            raise InputError("t_mm", self.t_mm, f"< min(h_mm, b_mm) / 2 = {side / 2:g} (no void left)")
+        if ro > side / 2.0:
+            raise InputError("outer_radius_mm", self.outer_radius_mm,
+                             f"<= min(h_mm, b_mm) / 2 = {side / 2:g}")
+        if ri > side / 2.0 - t:
+            raise InputError("inner_radius_mm", self.inner_radius_mm,
+                             f"<= min(h_mm, b_mm) / 2 - t_mm = {side / 2 - t:g}")
+        for name, value in (("h_mm", h), ("b_mm", b), ("t_mm", t),
+                            ("outer_radius_mm", ro), ("inner_radius_mm", ri)):
+            object.__setattr__(self, name, value)
+
+    @property
+    def area_mm2(self) -> float:
+        """Area [mm2]: [h b - (4 - pi) r_o^2] - [(h - 2t)(b - 2t) - (4 - pi) r_i^2]."""
+        hi, bi = self.h_mm - 2.0 * self.t_mm, self.b_mm - 2.0 * self.t_mm
+        outer = self.h_mm * self.b_mm - _FILLET_AREA_FACTOR * self.outer_radius_mm ** 2
+        inner = hi * bi - _FILLET_AREA_FACTOR * self.inner_radius_mm ** 2
+        return outer - inner
+
+    @property
+    def perimeter_mm(self) -> float:
+        """Outer contour [mm]: 2 (h + b) + (2 pi - 8) r_o."""
+        return 2.0 * (self.h_mm + self.b_mm) + _FILLET_PERIMETER_FACTOR * self.outer_radius_mm
+
+    def _heated_perimeter_mm(self, exposure: str, encasement: str) -> float:
+        if encasement == "profile":
+            # 3-sided: only the flat part (b - 2 r_o) of the top face touches the slab; the corner
+            # arcs stay heated (the larger, conservative section factor).
+            if exposure == "3-sided":
+                return self.perimeter_mm - (self.b_mm - 2.0 * self.outer_radius_mm)
+            return self.perimeter_mm
+        return 2.0 * self.h_mm + (2.0 if exposure == "4-sided" else 1.0) * self.b_mm
+
+
+@dataclass(frozen=True)
+class CircularHollowSection(_SI):
+    """Circular hollow section.
+
+    Parameters
+    ----------
+    d_mm : float
+        Outside diameter d [mm].
+    t_mm : float
+        Wall thickness t [mm], t < d / 2.
+    name : str
+        Label.
+    """
+
+    d_mm: float
+    t_mm: float
+    name: str = ""
+
+    #: convex: no shadow effect, k_sh = 1 (EN 1993-1-2 4.2.5.1(2))
+    convex = True
+
+    def __post_init__(self) -> None:
+        d = _number("d_mm", self.d_mm)
+        t = _number("t_mm", self.t_mm)
+        _name(self.name)
+        if 2.0 * t >= d:
+            raise InputError("t_mm", self.t_mm, f"< d_mm / 2 = {d / 2:g} (no void left)")
+        object.__setattr__(self, "d_mm", d)
+        object.__setattr__(self, "t_mm", t)
+
+    @property
+    def area_mm2(self) -> float:
+        """Area [mm2]: pi t (d - t)."""
+        return math.pi * self.t_mm * (self.d_mm - self.t_mm)
+
+    @property
+    def perimeter_mm(self) -> float:
+        """Outer contour [mm]: pi d."""
+        return math.pi * self.d_mm
+
+    def _heated_perimeter_mm(self, exposure: str, encasement: str) -> float:
+        if encasement == "profile":
+            if exposure == "3-sided":
+                raise InputError(
+                    "exposure", exposure,
+                    "'4-sided' for a circular hollow section with encasement='profile' "
+                    "(a tube does not lie face-on against a slab)")
+            return self.perimeter_mm
+        # square box of side d around the tube: 4 d, or 3 d with the top against the slab
+        return (4.0 if exposure == "4-sided" else 3.0) * self.d_mm
+
+
+Section = Union[ISection, RectangularHollowSection, CircularHollowSection]
+
+# --------------------------------------------------------------------------------------------
+# constructors
+# --------------------------------------------------------------------------------------------
+
+
+def rolled_i_section(h_mm, b_mm, tw_mm, tf_mm, r_mm, *, name: str = "") -> ISection:
+    """Rolled I or H section from its dimensions [mm], root radius included."""
+    return ISection(h_mm, b_mm, tw_mm, tf_mm, r_mm, name=name, fabrication="rolled")
+
+
+def welded_i_section(h_mm, b_mm, tw_mm, tf_mm, *, weld_throat_mm=0.0, name: str = "") -> ISection:
+    """Welded I section from plates [mm]: no root radius; the weld throat is recorded, not modelled."""
+    return ISection(h_mm, b_mm, tw_mm, tf_mm, 0.0, name=name, fabrication="welded",
+                    weld_throat_mm=weld_throat_mm)
+
+
+_RHS_FORMING = ("hot-finished", "cold-formed")
+
+
+def rhs_corner_radii_mm(t_mm, forming: str = "hot-finished") -> tuple[float, float]:
+    """Outer and inner corner radii (r_o, r_i) [mm] of an RHS for section-property calculations.
+
+    Rule (from memory of the product standards; check before design use):
+
+    * ``"hot-finished"`` (EN 10210-2): r_o = 1.5 t, r_i = 1.0 t;
+    * ``"cold-formed"`` (EN 10219-2): r_o = 2.0 t, r_i = 1.0 t for t <= 6 mm;
+      r_o = 2.5 t, r_i = 1.5 t for 6 < t <= 10 mm; r_o = 3.0 t, r_i = 2.0 t for t > 10 mm.
+    """
+    t = _number("t_mm", t_mm)
+    _choice("forming", forming, _RHS_FORMING)
+    if forming == "hot-finished":
+        return 1.5 * t, 1.0 * t
+    if t <= 6.0:
+        return 2.0 * t, 1.0 * t
+    if t <= 10.0:
+        return 2.5 * t, 1.5 * t
+    return 3.0 * t, 2.0 * t
+
+
+def rhs_section(h_mm, b_mm, t_mm, *, forming: str = "hot-finished", outer_radius_mm=None,
+                inner_radius_mm=None, name: str = "") -> RectangularHollowSection:
+    """Rectangular hollow section [mm] with corner radii from ``forming`` unless given.
+
+    The default corner radii follow :func:`rhs_corner_radii_mm`; ``outer_radius_mm`` and
+    ``inner_radius_mm`` override them one by one (0 gives sharp corners).
+    """
+    ro, ri = rhs_corner_radii_mm(t_mm, forming)
+    return RectangularHollowSection(
+        h_mm, b_mm, t_mm,
+        ro if outer_radius_mm is None else outer_radius_mm,
+        ri if inner_radius_mm is None else inner_radius_mm,
+        name=name)
+
+
+def chs_section(d_mm, t_mm, *, name: str = "") -> CircularHollowSection:
+    """Circular hollow section from outside diameter and wall thickness [mm]."""
+    return CircularHollowSection(d_mm, t_mm, name=name)
+
+
+# --------------------------------------------------------------------------------------------
+# section factors
+# --------------------------------------------------------------------------------------------
+
+
+def _check_section(section) -> None:
+    if not isinstance(section, (ISection, RectangularHollowSection, CircularHollowSection)):
+        raise InputError("section", section,
+                         "an ISection, RectangularHollowSection or CircularHollowSection "
+                         "(see catalogue_section, welded_i_section, rhs_section, chs_section)")
+
+
+def heated_perimeter_m(section: Section, exposure: str = "4-sided",
+                       encasement: str = "profile") -> float:
+    """Heated perimeter per unit length [m = m2/m] (Am of Table 4.2, Ap of Table 4.3, EN 1993-1-2).
+
+    ========================  ===========================  =====================================
+    section                   ``profile``                  ``box``
+    ========================  ===========================  =====================================
+    I, 4-sided                P = 4b + 2h - 2tw + (2pi-8)r 2 (b + h)
+    I, 3-sided (top on slab)  P - b                        2 h + b
+    RHS, 4-sided              2 (b + h) + (2pi-8) r_o      2 (b + h)
+    RHS, 3-sided (b on slab)  P - (b - 2 r_o)              2 h + b
+    CHS, 4-sided              pi d                         4 d
+    CHS, 3-sided              not defined (InputError)     3 d
+    ========================  ===========================  =====================================
+
+    Parameters
+    ----------
+    section : ISection, RectangularHollowSection or CircularHollowSection
+    exposure : {"4-sided", "3-sided"}
+        Fire all round, or on three sides with the top face against a slab.
+    encasement : {"profile", "box"}
+        Heated boundary along the steel contour (bare steel, or contour protection), or along the
+        enclosing box (the box value [Am/V]b, or box/hollow protection; Table 4.3 asks for
+        clearances of at most h/4 for the box rows).
+    """
+    _check_section(section)
+    exposure = _choice("exposure", exposure, EXPOSURES)
+    encasement = _choice("encasement", encasement, ENCASEMENTS)
+    return section._heated_perimeter_mm(exposure, encasement) * 1e-3
+
+
+def section_factor_per_m(section: Section, exposure: str = "4-sided",
+                         encasement: str = "profile") -> float:
+    """Section factor [1/m]: heated perimeter / cross-section area.
+
+    EN 1993-1-2 Table 4.2 (Am/V of unprotected members) and Table 4.3 (Ap/V of protected
+    members). The exact geometric ratio is returned; Table 4.2's shortcut Am/V ~ 1/t for thin
+    hollow sections is not used. Rows of Table 4.2 for single-flange, angle and flat-bar exposure
+    are not covered. EN 1993-1-2 4.2.5.1 bounds Am/V of bare steel below by 10 1/m; that bound is
+    the heat-transfer model's, not checked here. See :func:`heated_perimeter_m` for the perimeter of
+    each case and the meaning of ``exposure`` and ``encasement``.
+
+    Returns
+    -------
+    float
+        Section factor [1/m].
+    """
+    return heated_perimeter_m(section, exposure, encasement) / section.area_m2
+
+
+def box_section_factor_per_m(section: Section, exposure: str = "4-sided") -> float:
+    """Box value [Am/V]b [1/m] of EN 1993-1-2 4.2.5.1(2) and Table 4.2: box perimeter / area."""
+    return section_factor_per_m(section, exposure, "box")
+
+
+def shadow_factor(section: Section, exposure: str, nominal_fire: bool) -> float:
+    """Correction factor for the shadow effect k_sh [-] of an unprotected member.
+
+    EN 1993-1-2 4.2.5.1(2):
+
+    * I sections under nominal fire actions, eq (4.26a): k_sh = 0.9 [Am/V]b / [Am/V];
+    * other cases, eq (4.26b): k_sh = [Am/V]b / [Am/V];
+    * convex sections (rectangular and circular hollow sections) fully embedded in the fire:
+      k_sh = 1.
+
+    [Am/V]b is the box value and [Am/V] the contour value for the same ``exposure``. Taking
+    k_sh = 1 (ignoring the shadow effect) is conservative.
+
+    Parameters
+    ----------
+    section : ISection, RectangularHollowSection or CircularHollowSection
+    exposure : {"4-sided", "3-sided"}
+    nominal_fire : bool
+        True for a nominal fire (standard, hydrocarbon, external curve), False for a natural fire
+        (parametric or tabulated).
+
+    Returns
+    -------
+    float
+        k_sh, with 0 < k_sh <= 1.
+    """
+    _check_section(section)
+    exposure = _choice("exposure", exposure, EXPOSURES)
+    if not isinstance(nominal_fire, bool):
+        raise InputError("nominal_fire", nominal_fire, "True or False")
+    if section.convex:
+        return 1.0
+    ratio = (section._heated_perimeter_mm(exposure, "box")
+             / section._heated_perimeter_mm(exposure, "profile"))
+    return 0.9 * ratio if nominal_fire else ratio
+
+
+# --------------------------------------------------------------------------------------------
+# catalogue
+# --------------------------------------------------------------------------------------------
+
+_CATALOGUE_COLUMNS = ("name", "h_mm", "b_mm", "tw_mm", "tf_mm", "r_mm", "area_cm2", "mass_kg_m",
+                      "perimeter_m2_m")
+
+
+def _catalogue_key(name: str) -> str:
+    """Compact, case-free key: 'IPE 300', 'ipe300', 'IPE-300' -> 'IPE300'; 'HE 300 A' -> 'HEA300'."""
+    key = re.sub(r"[\s\-_]+", "", name.upper())
+    m = re.fullmatch(r"HE(\d+)([AB])", key)
+    if m:
+        key = f"HE{m.group(2)}{m.group(1)}"
+    return key
+
+
+def _parse_catalogue(text: str, source: str) -> dict[str, ISection]:
+    lines = [line for line in text.splitlines() if line.strip() and not line.lstrip().startswith("#")]
+    reader = csv.DictReader(io.StringIO("\n".join(lines)))
+    missing = [c for c in _CATALOGUE_COLUMNS[:-1] if c not in (reader.fieldnames or ())]
+    if missing:
+        raise InputError(source, reader.fieldnames, "columns " + ", ".join(_CATALOGUE_COLUMNS))
+    rows: dict[str, ISection] = {}
+    for i, row in enumerate(reader, start=1):
+        where = f"{source} row {i} ({row.get('name')!r})"
+
+        def num(col, optional=False):
+            raw = (row.get(col) or "").strip()
+            if optional and raw == "":
+                return None
+            try:
+                return float(raw)
+            except ValueError:
+                raise InputError(f"{where}.{col}", raw, "a number") from None
+
+        name = (row.get("name") or "").strip()
+        if not name:
+            raise InputError(f"{where}.name", name, "a section name")
+        try:
+            section = ISection(
+                num("h_mm"), num("b_mm"), num("tw_mm"), num("tf_mm"), num("r_mm"),
+                name=name, fabrication="rolled",
+                tabulated_area_cm2=num("area_cm2"), mass_kg_m=num("mass_kg_m"),
+                tabulated_perimeter_m2_m=num("perimeter_m2_m", optional=True))
+        except InputError as exc:
+            if exc.field.startswith(where):
+                raise
+            raise InputError(f"{where}.{exc.field}", exc.value, exc.allowed) from None
+        key = _catalogue_key(name)
+        if key in rows:
+            raise InputError(f"{where}.name", name, "a name not already in the catalogue")
+        rows[key] = section
+    return rows
+
+
+@lru_cache(maxsize=1)
+def _catalogue() -> dict[str, ISection]:
+    text = (resources.files("steelfire") / "data" / CATALOGUE_FILE).read_text(encoding="utf-8")
+    return _parse_catalogue(text, CATALOGUE_FILE)
+
+
+def _families(table: dict[str, ISection]) -> dict[str, tuple[str, str]]:
+    """First and last size of each family in file order: {'IPE': ('80', '600'), ...}."""
+    out: dict[str, list[str]] = {}
+    for s in table.values():
+        fam, _, size = s.name.partition(" ")
+        out.setdefault(fam, []).append(size)
+    return {fam: (sizes[0], sizes[-1]) for fam, sizes in out.items()}
+
+
+def catalogue_names() -> tuple[str, ...]:
+    """Names of the catalogue sections, in file order (``"IPE 80"``, ..., ``"HEB 1000"``)."""
+    return tuple(s.name for s in _catalogue().values())
+
+
+def catalogue_section(name: str) -> ISection:
+    """Standard rolled section (IPE, HEA, HEB) by name, as a frozen :class:`ISection`.
+
+    Dimensions after EN 10365, entered from memory: check against the standard before design use.
+    Names are matched without regard to case, spaces or hyphens: ``"IPE 300"``, ``"IPE300"``,
+    ``"ipe 300"``, ``"HE 300 B"`` and ``"HE300B"`` all work.
+
+    Raises
+    ------
+    InputError
+        Unknown name (field ``section``), with a few close matches.
+    """
+    if not isinstance(name, str):
+        raise InputError("section", name, "a catalogue section name such as 'IPE 300'")
+    table = _catalogue()
+    key = _catalogue_key(name)
+    if key in table:
+        return table[key]
+    close = difflib.get_close_matches(key, list(table), n=4, cutoff=0.6)
+    if close:
+        hint = "close matches: " + ", ".join(table[k].name for k in close)
+    else:
+        hint = "catalogue families " + ", ".join(
+            f"{fam} {lo}..{hi}" for fam, (lo, hi) in _families(table).items())
+    raise InputError("section", name, f"a catalogue section name; {hint}")
