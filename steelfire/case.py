@@ -29,6 +29,24 @@ GROWTHS = ("slow", "medium", "fast")
 MAX_DURATION_MIN = 1440.0        # 24 h
 MAX_GRID_POINTS = 2_000_000
 MAX_MEMBERS = 200_000
+# TOML integers are 64-bit (TOML 1.0); larger ones are refused, not converted.
+INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
+
+# The keys each table may hold. A key outside its list is refused before anything else is read, so
+# that a typo (``thicknes_mm``) is reported as itself, not as the required key it hides.
+TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member")
+FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient")
+ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope")
+COMPARTMENT_KEYS = ("floor_area_m2", "height_m", "boundary_area_m2", "thermal_inertia", "roof_opening_area_m2",
+                    "opening", "surface")
+OPENING_KEYS = ("width_m", "height_m", "count")
+SURFACE_KEYS = ("area_m2", "layers")
+LAYER_KEYS = ("thickness_m", "density", "conductivity", "specific_heat")
+FIRE_LOAD_KEYS = ("characteristic_MJ_m2", "design_MJ_m2", "combustion_factor", "area_factor", "occupancy_factor",
+                  "measures_factor", "growth")
+MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent")
+MEMBER_KEYS = ("name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation",
+               "critical_temperature_C", "protection", "thickness_mm", "required_minutes", "shadow_factor")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -131,14 +149,19 @@ class Case:
 
 
 class _Table:
-    """Reads one TOML table, checking types and ranges, and refuses keys nobody read."""
+    """Reads one TOML table, checking types and ranges, and refuses keys nobody read.
 
-    def __init__(self, data, where: str):
+    With ``keys``, keys outside that list are refused at once, before any value is read.
+    """
+
+    def __init__(self, data, where: str, keys=None):
         if not isinstance(data, dict):
             raise InputError(where, data, "must be a table")
         self.data = data
         self.where = where
         self.seen = set()
+        if keys is not None:
+            self.done(allowed=keys)
 
     def _f(self, key):
         return f"{self.where}.{key}" if self.where else key
@@ -221,6 +244,8 @@ def load_case(path) -> Case:
             data = tomllib.load(fh)
     except tomllib.TOMLDecodeError as exc:
         raise InputError("case file", p.name, f"is not valid TOML ({exc})") from None
+    except UnicodeDecodeError as exc:
+        raise InputError("case file", p.name, f"is not valid TOML: not UTF-8 text (byte {exc.start})") from None
     except OSError as exc:
         raise InputError("case file", p.name, f"cannot be read ({exc.strerror})") from None
     return case_from_dict(data, base_dir=p.parent, source=p)
@@ -228,14 +253,15 @@ def load_case(path) -> Case:
 
 def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     """Validate a case given as a dict of the TOML contract (paths relative to ``base_dir``)."""
-    top = _Table(data, "")
+    _check_integers(data, "")
+    top = _Table(data, "", keys=TOP_KEYS)
     title = top.string("title", required=False, default="untitled case")
     code_data = top.raw("code", {})
     if not isinstance(code_data, dict):
         raise InputError("code", code_data, "must be a table of code value names and numbers")
     code = codevalues.resolve(code_data)
 
-    fire = _read_fire(_Table(top.raw("fire"), "fire") if top.has("fire") else None, Path(base_dir))
+    fire = _read_fire(_Table(top.raw("fire"), "fire", keys=FIRE_KEYS) if top.has("fire") else None, Path(base_dir))
     analysis = _read_analysis(top.raw("analysis", {}))
     compartment = _read_compartment(top.raw("compartment")) if top.has("compartment") else None
     fire_load = _read_fire_load(top.raw("fire_load")) if top.has("fire_load") else None
@@ -271,6 +297,18 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
                 code_overrides={k: float(v) for k, v in code_data.items()})
+
+
+def _check_integers(v, where):
+    """Refuse integers outside 64 bits anywhere in the data (TOML 1.0 integers are 64-bit)."""
+    if isinstance(v, dict):
+        for k, x in v.items():
+            _check_integers(x, f"{where}.{k}" if where else str(k))
+    elif isinstance(v, list):
+        for i, x in enumerate(v):
+            _check_integers(x, f"{where}[{i + 1}]")
+    elif isinstance(v, int) and not isinstance(v, bool) and not (INT64_MIN <= v <= INT64_MAX):
+        raise InputError(where, v, "integers must fit in 64 bits (TOML 1.0); give a number in the key's unit")
 
 
 def time_step_limit(members, code):
@@ -317,7 +355,7 @@ def _read_fire(t: _Table | None, base_dir: Path) -> FireSpec:
 
 
 def _read_analysis(data) -> AnalysisSettings:
-    t = _Table(data, "analysis")
+    t = _Table(data, "analysis", keys=ANALYSIS_KEYS)
     step = t.number("time_step_s", "s", required=False, default=5.0, lo=0.0, lo_open=True, hi=300.0)
     horizon = t.number("standard_horizon_min", "min", required=False, default=240.0, lo=1.0, hi=MAX_DURATION_MIN)
     allow = t.boolean("allow_out_of_scope", default=False)
@@ -326,7 +364,7 @@ def _read_analysis(data) -> AnalysisSettings:
 
 
 def _read_compartment(data) -> Compartment:
-    t = _Table(data, "compartment")
+    t = _Table(data, "compartment", keys=COMPARTMENT_KEYS)
     af = t.number("floor_area_m2", "m2", lo=0.0, lo_open=True, hi=1e5)
     h = t.number("height_m", "m", lo=0.0, lo_open=True, hi=100.0)
     at = t.number("boundary_area_m2", "m2", lo=0.0, lo_open=True, hi=1e6)
@@ -339,7 +377,7 @@ def _read_compartment(data) -> Compartment:
         raise InputError("compartment.opening", openings_raw or None, "needs at least one [[compartment.opening]]")
     openings = []
     for i, o in enumerate(openings_raw):
-        ot = _Table(o, f"compartment.opening[{i + 1}]")
+        ot = _Table(o, f"compartment.opening[{i + 1}]", keys=OPENING_KEYS)
         w = ot.number("width_m", "m", lo=0.0, lo_open=True, hi=1000.0)
         oh = ot.number("height_m", "m", lo=0.0, lo_open=True, hi=100.0)
         n = ot.number("count", "-", required=False, default=1, lo=1, hi=10000, integer=True)
@@ -356,7 +394,7 @@ def _read_compartment(data) -> Compartment:
     surfaces = []
     for i, s in enumerate(surfaces_raw):
         where = f"compartment.surface[{i + 1}]"
-        st = _Table(s, where)
+        st = _Table(s, where, keys=SURFACE_KEYS)
         area = st.number("area_m2", "m2", lo=0.0, lo_open=True, hi=1e6)
         layers_raw = st.raw("layers")
         st.done()
@@ -364,7 +402,7 @@ def _read_compartment(data) -> Compartment:
             raise InputError(f"{where}.layers", layers_raw, "needs at least one layer table")
         layers = []
         for j, lr in enumerate(layers_raw):
-            lt = _Table(lr, f"{where}.layers[{j + 1}]")
+            lt = _Table(lr, f"{where}.layers[{j + 1}]", keys=LAYER_KEYS)
             layers.append(Layer(
                 thickness_m=lt.number("thickness_m", "m", lo=0.0, lo_open=True, hi=10.0),
                 density=lt.number("density", "kg/m3", lo=0.0, lo_open=True, hi=20000.0),
@@ -384,7 +422,7 @@ def _read_compartment(data) -> Compartment:
 
 
 def _read_fire_load(data) -> FireLoad:
-    t = _Table(data, "fire_load")
+    t = _Table(data, "fire_load", keys=FIRE_LOAD_KEYS)
     qk = t.number("characteristic_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
     qd = t.number("design_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
     if (qk is None) == (qd is None):
@@ -417,7 +455,7 @@ def _read_materials(data) -> dict:
     out = {}
     for name, md in data.items():
         where = f"materials.{name}"
-        t = _Table(md, where)
+        t = _Table(md, where, keys=MATERIAL_KEYS)
         rho = t.number("density", "kg/m3", lo=1.0, hi=5000.0)
         cp = t.number("specific_heat", "J/(kg K)", lo=100.0, hi=10000.0)
         moist = t.number("moisture_percent", "% of dry weight", required=False, default=0.0, lo=0.0, hi=50.0)
@@ -462,7 +500,7 @@ def _read_conductivity(v, where):
 def _read_member(data, index, materials, code) -> Member:
     name_guess = data.get("name") if isinstance(data, dict) else None
     where = f"member[{index}]" + (f" ({name_guess})" if isinstance(name_guess, str) else "")
-    t = _Table(data, where)
+    t = _Table(data, where, keys=MEMBER_KEYS)
     name = t.string("name")
     if not name.strip():
         raise InputError(f"{where}.name", name, "must not be empty")
@@ -470,8 +508,8 @@ def _read_member(data, index, materials, code) -> Member:
     restrained = t.boolean("laterally_restrained", default=None)
     if restrained is not None and kind != "beam":
         raise InputError(f"{where}.laterally_restrained", restrained, "applies to beams only (kind = \"beam\")")
-    mu = t.number("utilisation", "-", required=False, lo=0.013, hi=1.0)
-    if mu is not None and mu >= 1.0:
+    mu = t.number("utilisation", "-", required=False)
+    if mu is not None and not (0.013 <= mu < 1.0):
         raise InputError(f"{where}.utilisation", mu, "must be >= 0.013 and < 1 (EN 1993-1-2 eq (4.22))")
     tcr = t.number("critical_temperature_C", "C", required=False, lo=20.0, lo_open=True, hi=1200.0)
     if (mu is None) == (tcr is None):

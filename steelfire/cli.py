@@ -29,7 +29,7 @@ def _parser():
     c = sub.add_parser("check", help="check every member of a case against its critical temperature")
     c.add_argument("case", help="case file (TOML)")
     c.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
-    c.add_argument("--time-step-s", type=float, default=None, metavar="S",
+    c.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _run_check
                    help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
     return p
 
@@ -86,10 +86,15 @@ def render_table(result) -> str:
 def _run_check(args) -> int:
     from . import analyse, load_case
     from .case import with_time_step
+    from .errors import InputError
 
     case = load_case(args.case)
     if args.time_step_s is not None:
-        case = with_time_step(case, args.time_step_s)
+        try:
+            step = float(args.time_step_s)
+        except ValueError:
+            raise InputError("--time-step-s", args.time_step_s, "must be a number [s]") from None
+        case = with_time_step(case, step)
     result = analyse(case, histories=False)
     if args.json:
         sys.stdout.write(json.dumps(result.to_dict(), indent=2, allow_nan=False) + "\n")

@@ -61,10 +61,6 @@ _DEFS = {
 #: The definitions, read-only: name -> CodeValue(value, unit, clause, minimum, maximum).
 DEFINITIONS = MappingProxyType(_DEFS)
 
-#: The EN recommended values, name -> value.
-DEFAULTS = MappingProxyType({k: v.value for k, v in _DEFS.items()})
-
-
 def resolve(overrides=None, field_prefix: str = "code") -> dict:
     """Code values in force: the EN recommended values updated by ``overrides``.
 
@@ -88,3 +84,18 @@ def resolve(overrides=None, field_prefix: str = "code") -> dict:
                              f"must be between {d.minimum:g} and {d.maximum:g} [{d.unit}]")
         values[name] = float(value)
     return values
+
+
+def _register_equivalence():
+    # The time-equivalence module keeps its own table of clause values (Annex F, CIB W14);
+    # they are registered here so that [code] can override them like any other.
+    from .equivalence import CODE_VALUE_SOURCES, DEFAULT_CODE_VALUES
+
+    for name, value in DEFAULT_CODE_VALUES.items():
+        unit, clause = CODE_VALUE_SOURCES[name]
+        _DEFS[name] = CodeValue(float(value), unit, clause, 0.0, 1e6)
+
+
+_register_equivalence()
+#: The EN recommended values, name -> value.
+DEFAULTS = MappingProxyType({k: v.value for k, v in _DEFS.items()})
