@@ -219,9 +219,15 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     peak, peak_t, _, _, last, hist = run_members(case, members, t, g, fire.alpha_c, thresholds,
                                                  keep_history=histories)
     # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
+    # and for the equal-steel-temperature equivalence: when the same member reaches its design-fire
+    # peak under the standard fire (the members run twice in one batch, one threshold each)
     ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
     gs = nominal.standard_fire(ts)
-    _, _, cross, _, _, _ = run_members(case, members, ts, gs, code["alpha_c_standard"], thresholds)
+    n = len(members)
+    _, _, cross2, _, _, _ = run_members(case, members + members, ts, gs, code["alpha_c_standard"],
+                                        np.concatenate([thresholds, peak]))
+    cross, equal_t = cross2[:n], cross2[n:]
+    equiv = equivalence_routes(case, fire, members, equal_t, warnings)
 
     results = []
     for i, m in enumerate(members):
@@ -232,15 +238,106 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
             time_of_peak_steel_min=float(peak_t[i] / 60.0),
             standard_fire_time_to_critical_min=None if np.isnan(cross[i]) else float(cross[i] / 60.0),
             required_minutes=m.required_minutes, shadow_factor=m.shadow_factor, utilisation=m.utilisation,
-            steel_temperature_C=hist[:, i].copy() if histories else None))
+            steel_temperature_C=hist[:, i].copy() if histories else None,
+            equivalence=equiv["members"][i]))
 
     warnings += _member_warnings(case, members, fire, t, g, peak, last)
-    if case.fire.curve in ("parametric", "table") or case.fire_load is not None:
-        pass
+    fr.equivalence_factors = equiv["factors"]
     return AnalysisResult(title=case.title, fire=fr, members=results, code_values=dict(code),
                           warnings=fire.out_of_scope + warnings, out_of_scope=list(fire.out_of_scope),
                           time_step_s=step, standard_horizon_min=case.analysis.standard_horizon_min,
                           cautions=CAUTIONS)
+
+
+#: A route is flagged unconservative when its equivalent time is more than this fraction below the direct one.
+UNCONSERVATIVE_FRACTION = 0.10
+
+
+def equivalence_routes(case, fire, members, equal_time_s, warnings):
+    """Time equivalence by EN 1991-1-2 Annex F, the CIB W14 formula and equal steel temperature.
+
+    Returns {"factors": {...} | None, "members": [per-member dict]}. Annex F and CIB W14 need the
+    compartment and the fire load; without them they are null with the reason in ``warnings``.
+    The direct route is the time at which the member, under the standard fire, reaches the peak it
+    reaches in the design fire (null if not within standard_horizon_min).
+    """
+    from . import equivalence as eq
+
+    horizon = case.analysis.standard_horizon_min
+    annex_f = {}
+    cib = None
+    factors = None
+    if case.compartment is not None and case.fire_load is not None:
+        c, f = case.compartment, fire.fields
+        common = dict(design_fire_load_MJ_m2=f["design_fire_load_MJ_m2"], floor_area_m2=c.floor_area_m2,
+                      vertical_opening_area_m2=f["vertical_opening_area_m2"], thermal_inertia=f["thermal_inertia"],
+                      code=case.code)
+        kinds = sorted({m.protected for m in members}, reverse=True)
+        for prot in kinds:
+            annex_f[prot] = eq.annex_f_time_equivalence(
+                height_m=c.height_m, roof_opening_area_m2=c.roof_opening_area_m2, protected=prot,
+                opening_factor_m05=f["opening_factor_m05"], total_area_m2=c.boundary_area_m2,
+                opening_height_m=f["opening_height_m"], **common)
+        cib = eq.cib_w14_time_equivalence(total_area_m2=c.boundary_area_m2, opening_height_m=f["opening_height_m"],
+                                          protected=True, roof_opening_area_m2=c.roof_opening_area_m2,
+                                          height_m=c.height_m, **common)
+        seen = set()
+        for res in list(annex_f.values()) + [cib]:
+            for w in res.warnings:
+                if w not in seen:
+                    seen.add(w)
+                    warnings.append(w)
+        if c.roof_opening_area_m2 > 0 and case.fire.curve == "parametric":
+            warnings.append("The Annex A parametric fire does not cover horizontal (roof) openings; Annex F does "
+                            f"(alpha_h = {c.roof_opening_area_m2 / c.floor_area_m2:.4g}).")
+
+        def strip(d):
+            d = dict(d)
+            d.pop("code_values", None)
+            d.pop("warnings", None)
+            return d
+
+        factors = {"annex_f_protected": strip(annex_f[True].to_dict()) if True in annex_f else None,
+                   "annex_f_bare": strip(annex_f[False].to_dict()) if False in annex_f else None,
+                   "cib_w14": strip(cib.to_dict())}
+    else:
+        warnings.append("Time equivalence by Annex F and CIB W14 needs [compartment] and [fire_load]; "
+                        "only the equal-steel-temperature route is given.")
+    if any(not m.protected for m in members) and cib is not None:
+        warnings.append("CIB W14: " + cib.not_applicable_reason if cib.not_applicable_reason else
+                        "CIB W14 is derived for protected members; null for bare members.")
+    out = []
+    for i, m in enumerate(members):
+        a = annex_f[m.protected].t_e_min if annex_f else None
+        w = cib.t_e_min if (cib is not None and m.protected) else None
+        d = None if math.isnan(equal_time_s[i]) else float(equal_time_s[i] / 60.0)
+        routes = {"annex_f": a, "cib_w14": w}
+        direct = d if d is not None else horizon  # null: beyond the horizon, so at least the horizon
+        uncons = [r for r, v in routes.items() if v is not None and v < (1.0 - UNCONSERVATIVE_FRACTION) * direct]
+        meets = None
+        if m.required_minutes is not None:
+            meets = {r: (v <= m.required_minutes + 1e-9) for r, v in routes.items() if v is not None}
+            if d is not None:
+                meets["equal_temperature"] = d <= m.required_minutes + 1e-9
+            elif m.required_minutes < horizon:
+                meets["equal_temperature"] = False
+        small = annex_f[m.protected].small_compartment if annex_f else None
+        out.append({"annex_f_min": a, "cib_w14_min": w, "equal_temperature_min": d, "unconservative": uncons,
+                    "annex_f_small_compartment_min": small.t_e_min if small is not None else None,
+                    "meets_required": meets,
+                    "annex_f_k_c": annex_f[m.protected].k_c if annex_f else None,
+                    "equal_temperature_beyond_horizon": d is None})
+    flagged = [m.name for m, e in zip(members, out) if e["unconservative"]]
+    if flagged:
+        warnings.append(
+            f"Time equivalence more than {UNCONSERVATIVE_FRACTION:.0%} below the direct (equal steel temperature) "
+            f"answer, i.e. unconservative, for {_names(flagged)}: see each member's 'unconservative' routes.")
+    beyond = [m.name for m, e in zip(members, out) if e["equal_temperature_beyond_horizon"]]
+    if beyond:
+        warnings.append(
+            f"Equal-temperature equivalence beyond the standard-fire horizon ({horizon:g} min) for {_names(beyond)}: "
+            "the design-fire peak is not reached within it (null; compared as at least the horizon).")
+    return {"factors": factors, "members": out}
 
 
 def _member_warnings(case, members, fire, t, g, peak, last):

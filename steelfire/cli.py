@@ -38,6 +38,13 @@ def _fmt(v, spec, none="-"):
     return none if v is None else format(v, spec)
 
 
+def _table(head, rows):
+    widths = [max(len(h), *(len(r[j]) for r in rows)) for j, h in enumerate(head)]
+    out = ["  ".join(h.ljust(w) for h, w in zip(head, widths)).rstrip(), "  ".join("-" * w for w in widths)]
+    out += ["  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip() for r in rows]
+    return out
+
+
 def render_table(result) -> str:
     """The terminal summary: the design fire, one row per member, warnings, cautions."""
     f = result.fire
@@ -66,11 +73,20 @@ def render_table(result) -> str:
             _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
             _fmt(m.required_minutes, "g"),
             {None: "-", True: "meets", False: "SHORT"}[m.meets_required_period]])
-    widths = [max(len(h), *(len(r[j]) for r in rows)) for j, h in enumerate(head)]
-    lines.append("  ".join(h.ljust(w) for h, w in zip(head, widths)))
-    lines.append("  ".join("-" * w for w in widths))
-    for r in rows:
-        lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)))
+    lines += _table(head, rows)
+    lines += ["", "Time equivalence (standard-fire minutes said to match the design fire):"]
+    head = ["member", "required [min]", "R std [min]", "Annex F [min]", "CIB W14 [min]", "equal temp. [min]",
+            "F (F.3) [min]", "unconservative"]
+    rows = []
+    for m in result.members:
+        e = m.equivalence or {}
+        rows.append([m.name, _fmt(m.required_minutes, "g"),
+                     _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
+                     _fmt(e.get("annex_f_min"), ".1f"), _fmt(e.get("cib_w14_min"), ".1f"),
+                     _fmt(e.get("equal_temperature_min"), ".1f", f"> {result.standard_horizon_min:g}"),
+                     _fmt(e.get("annex_f_small_compartment_min"), ".1f"),
+                     ", ".join(e.get("unconservative", [])) or "-"])
+    lines += _table(head, rows)
     n_ok = sum(m.ok for m in result.members)
     lines += ["", f"{n_ok} of {len(result.members)} members pass the design fire and meet their required period."]
     if result.out_of_scope:

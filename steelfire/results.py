@@ -31,6 +31,28 @@ def _sig(v, n=6):
     return float(f"{v:.{n}g}")
 
 
+def _round_tree(v):
+    """Factors for output: floats to 6 significant figures, containers walked."""
+    if isinstance(v, dict):
+        return {k: _round_tree(x) for k, x in v.items()}
+    if isinstance(v, (list, tuple)):
+        return [_round_tree(x) for x in v]
+    if isinstance(v, float):
+        return _sig(v)
+    return v
+
+
+def _equivalence_dict(e):
+    if e is None:
+        return None
+    return {"annex_f_min": _r(e["annex_f_min"]), "cib_w14_min": _r(e["cib_w14_min"]),
+            "equal_temperature_min": _r(e["equal_temperature_min"]),
+            "unconservative": list(e["unconservative"]),
+            "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
+            "annex_f_k_c": _sig(e["annex_f_k_c"]),
+            "annex_f_small_compartment_min": _r(e["annex_f_small_compartment_min"])}
+
+
 @dataclass
 class FireResult:
     """The design fire with the intermediate values of EN 1991-1-2 Annex A and Annex E."""
@@ -59,6 +81,7 @@ class FireResult:
     cooling_rate_C_h: float | None = None
     burnout_time_min: float | None = None
     source_file: str | None = None
+    equivalence_factors: dict | None = None
 
     def to_dict(self) -> dict:
         return {
@@ -85,6 +108,7 @@ class FireResult:
             "cooling_rate_C_h": _sig(self.cooling_rate_C_h),
             "burnout_time_min": _r(self.burnout_time_min),
             "source_file": self.source_file,
+            "equivalence_factors": _round_tree(self.equivalence_factors),
         }
 
 
@@ -106,6 +130,7 @@ class MemberResult:
     shadow_factor: float | None = None
     utilisation: float | None = None
     steel_temperature_C: np.ndarray | None = field(default=None, repr=False)
+    equivalence: dict | None = None
 
     @property
     def margin_C(self) -> float:
@@ -145,6 +170,7 @@ class MemberResult:
             "utilisation": _sig(self.utilisation),
             "critical_temperature_source": self.critical_temperature_source,
             "required_minutes": _sig(self.required_minutes),
+            "equivalence": _equivalence_dict(self.equivalence),
         }
 
 

@@ -30,7 +30,8 @@ def test_check_table(case):
     r = run("check", str(case))
     assert r.returncode in (0, 1), r.stderr
     out = r.stdout
-    for head in ("section factor [1/m]", "theta_cr [C]", "peak steel [C]", "margin [C]", "R std [min]"):
+    for head in ("section factor [1/m]", "theta_cr [C]", "peak steel [C]", "margin [C]", "R std [min]",
+                 "Annex F [min]", "CIB W14 [min]", "equal temp. [min]"):
         assert head in out
     assert out.rstrip().splitlines()[-1].startswith("CAUTION:")
     assert "competent fire engineer" in out
