@@ -121,77 +121,93 @@ def protected_history(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
     return out
 
 
+#: Members advanced side by side in one time loop: independent chains the CPU can overlap.
+CHUNK = 32
+
+
 @nb.njit(cache=True, parallel=True)
 def batch(time_s, gas_C, bare, ksh_amv, alpha_c, eps_res, rho_a,
           d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
           threshold_C, query_idx, keep_history):
-    """N members (bare or protected) against one fire, members spread over the cores.
+    """N members (bare or protected) against one fire; chunks of members spread over the cores.
 
     Returns (peak_C, peak_time_s, crossing_time_s, at_query_C, last_increment_C, history_C):
     peak over the grid and its first time; first time the steel reaches ``threshold_C[m]``, linear
-    between steps (NaN if never); steel temperature at the grid indices ``query_idx`` (N x Q);
-    the last step's increment; the full history (T x N) if ``keep_history`` else a 0 x 0 array.
+    between steps (NaN if never); steel temperature at the grid indices ``query_idx`` (ascending;
+    N x Q); the last step's increment; the full history (T x N) if ``keep_history`` else 0 x 0.
     For bare members ``ksh_amv`` is k_sh Am/V; for protected ones it is Ap/V.
+
+    Within a chunk the time loop is outside and the member loop inside, so that the steps of
+    different members (independent recurrences) overlap in the processor; the arithmetic per
+    member-step is that of :func:`bare_increment` / :func:`protected_increment`.
     """
     n_t = time_s.shape[0]
     n_m = ksh_amv.shape[0]
     n_q = query_idx.shape[0]
     peak = np.empty(n_m)
     peak_t = np.empty(n_m)
-    cross = np.empty(n_m)
-    at_q = np.empty((n_m, n_q))
-    last = np.empty(n_m)
+    cross = np.full(n_m, np.nan)
+    at_q = np.full((n_m, n_q), np.nan)
+    last = np.zeros(n_m)
     hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
-    for m in nb.prange(n_m):
-        theta = 20.0
-        held = 0.0
-        pk = theta
-        pk_t = time_s[0]
-        cr = np.nan
-        if theta >= threshold_C[m]:
-            cr = time_s[0]
+    n_chunks = (n_m + CHUNK - 1) // CHUNK
+    for c in nb.prange(n_chunks):
+        lo = c * CHUNK
+        w = min(lo + CHUNK, n_m) - lo
+        th = np.full(w, 20.0)
+        held = np.zeros(w)
+        pk = np.full(w, 20.0)
+        pkt = np.full(w, time_s[0])
+        dlast = np.zeros(w)
+        for j in range(w):
+            m = lo + j
+            if 20.0 >= threshold_C[m]:
+                cross[m] = time_s[0]
+            if keep_history:
+                hist[0, m] = 20.0
         q = 0
         while q < n_q and query_idx[q] == 0:
-            at_q[m, q] = theta
+            for j in range(w):
+                at_q[lo + j, q] = 20.0
             q += 1
-        if keep_history:
-            hist[0, m] = theta
-        d = 0.0
         for i in range(n_t - 1):
-            dt = time_s[i + 1] - time_s[i]
-            if bare[m]:
-                d = bare_increment(theta, gas_C[i], dt, ksh_amv[m], alpha_c, eps_res, rho_a)
-                new = theta + d
-            else:
-                lam = table_value(theta, lam_T[m], lam_v[m], lam_n[m])
-                d = protected_increment(theta, gas_C[i], gas_C[i + 1] - gas_C[i], dt, ksh_amv[m],
-                                        d_p[m], rho_p[m], c_p[m], lam, rho_a)
-                new = theta + d
-                if delay_s[m] > 0.0 and held < delay_s[m] and new >= MOISTURE_PLATEAU_C and d > 0.0:
-                    if theta < MOISTURE_PLATEAU_C:
-                        new = MOISTURE_PLATEAU_C
-                    else:
-                        held += dt
-                        new = theta
-                d = new - theta
-            if np.isnan(cr) and new >= threshold_C[m]:
-                cr = time_s[i] + dt * (threshold_C[m] - theta) / (new - theta)
-            theta = new
-            if theta > pk:
-                pk = theta
-                pk_t = time_s[i + 1]
+            t0 = time_s[i]
+            dt = time_s[i + 1] - t0
+            g = gas_C[i]
+            dg = gas_C[i + 1] - g
+            for j in range(w):
+                m = lo + j
+                x = th[j]
+                if bare[m]:
+                    d = bare_increment(x, g, dt, ksh_amv[m], alpha_c, eps_res, rho_a)
+                    new = x + d
+                else:
+                    lam = lam_v[m, 0] if lam_n[m] == 1 else table_value(x, lam_T[m], lam_v[m], lam_n[m])
+                    d = protected_increment(x, g, dg, dt, ksh_amv[m], d_p[m], rho_p[m], c_p[m], lam, rho_a)
+                    new = x + d
+                    if delay_s[m] > 0.0 and held[j] < delay_s[m] and new >= MOISTURE_PLATEAU_C and d > 0.0:
+                        if x < MOISTURE_PLATEAU_C:
+                            new = MOISTURE_PLATEAU_C
+                        else:
+                            held[j] += dt
+                            new = x
+                if new >= threshold_C[m] and np.isnan(cross[m]):
+                    cross[m] = t0 + dt * (threshold_C[m] - x) / (new - x)
+                dlast[j] = new - x
+                th[j] = new
+                if new > pk[j]:
+                    pk[j] = new
+                    pkt[j] = time_s[i + 1]
+                if keep_history:
+                    hist[i + 1, m] = new
             while q < n_q and query_idx[q] == i + 1:
-                at_q[m, q] = theta
+                for j in range(w):
+                    at_q[lo + j, q] = th[j]
                 q += 1
-            if keep_history:
-                hist[i + 1, m] = theta
-        peak[m] = pk
-        peak_t[m] = pk_t
-        cross[m] = cr
-        last[m] = d
-        while q < n_q:
-            at_q[m, q] = np.nan
-            q += 1
+        for j in range(w):
+            peak[lo + j] = pk[j]
+            peak_t[lo + j] = pkt[j]
+            last[lo + j] = dlast[j]
     return peak, peak_t, cross, at_q, last, hist
 
 
