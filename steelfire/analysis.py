@@ -5,6 +5,7 @@ No physics lives here: it calls the fire, steel and heat modules and gathers the
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -368,3 +369,119 @@ def _member_warnings(case, members, fire, t, g, peak, last):
                     "as the gas cools). A property of the published equation; check such members with a more "
                     "detailed model and do not rely on 'thicker is cooler' here.")
     return out
+
+
+# ----------------------------------------------------------------------------------------------
+# sizing: the least protection thickness per member (steelfire.sizing), then the check at it
+
+
+def _sizing_fires(case):
+    """The standard fire up to the longest required period and the design fire, as sizing.Fire."""
+    from . import sizing
+
+    code = case.code
+    step = case.analysis.time_step_s
+    fire = design_fire(case)
+    t = time_grid(case.fire.duration_min * 60.0, step, fire.key_times_s)
+    design = sizing.Fire(t, np.asarray(fire.gas(t), dtype=float), float(fire.alpha_c))
+    req = [m.required_minutes for m in case.members if m.required_minutes is not None]
+    horizon = max(req) * 60.0 if req else step
+    ts = time_grid(horizon, step)
+    standard = sizing.Fire(ts, nominal.standard_fire(ts), float(code["alpha_c_standard"]))
+    return standard, design
+
+
+def size_members(case: Case):
+    """Least thickness per protected member for its standard period and for burnout, the governing
+    one, and the least supplied thickness that passes both (checked, since the burnout peak need not
+    fall with thickness). Returns a list of sizing dicts, one per member, in schedule order."""
+    from . import sizing
+
+    code = case.code
+    members = case.members
+    standard, design = _sizing_fires(case)
+    prot = [i for i, m in enumerate(members) if m.protected]
+    out = [None] * len(members)
+    if prot:
+        sub = [members[i] for i in prot]
+        arrays = thermal_arrays(case, [dataclasses.replace(m, thickness_mm=1.0) for m in sub])
+        mats = [case.materials[m.protection] for m in sub]
+        ts = sizing.ThermalSet(ap_v=arrays[1], rho_p=arrays[3], c_p=arrays[4], lam_T=arrays[5], lam_v=arrays[6],
+                               lam_n=arrays[7], moisture_percent=np.array([m.moisture_percent for m in mats]),
+                               lam20=np.array([m.conductivity_at_20C for m in mats]))
+        crit = np.array([_critical(m, code)[0] for m in sub])
+        req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
+        eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
+        p = sizing.Problem(ts, crit, req, standard, design, eps_res, code["steel_density_kg_m3"])
+        supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]
+        d_min = np.array([s[0] for s in supplied])
+        d_max = np.array([s[-1] for s in supplied])
+        a = sizing.size_standard_period(p, d_min, d_max)
+        b = sizing.size_burnout(p, d_min, d_max)
+        a_mm = np.where(np.isnan(a.thickness_m), np.nan, a.thickness_m * 1e3)
+        b_mm = b.thickness_m * 1e3
+        need = np.fmax(np.nan_to_num(a_mm, nan=-1.0), np.nan_to_num(b_mm, nan=-1.0))
+        possible = a.achievable & b.achievable
+        chosen, ok = sizing.round_up_and_verify(p, need * 1e-3, possible, supplied)
+        for j, i in enumerate(prot):
+            has_std = not np.isnan(req[j])
+            std_v = float(a_mm[j]) if has_std and a.achievable[j] else None
+            burn_v = float(b_mm[j]) if b.achievable[j] else None
+            if ok[j]:
+                governing = "standard_period" if (std_v is not None and (burn_v is None or std_v >= burn_v)) \
+                    else "burnout"
+                note = ""
+            else:
+                governing = None
+                why = []
+                if has_std and not a.achievable[j]:
+                    why.append(f"the standard period ({sub[j].required_minutes:g} min)")
+                if not b.achievable[j]:
+                    why.append("burnout of the design fire")
+                if not why:
+                    why.append("both criteria at any supplied thickness")
+                note = (f"not achievable within the material's largest thickness "
+                        f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
+            out[i] = {"standard_period_mm": std_v, "burnout_mm": burn_v, "governing": governing,
+                      "chosen_mm": float(chosen[j] * 1e3) if ok[j] else None, "achievable": bool(ok[j]),
+                      "note": note, "supplied_range_mm": [float(supplied[j][0] * 1e3), float(supplied[j][-1] * 1e3)],
+                      "iterations": {"standard_period": a.iterations, "burnout": b.iterations}}
+        out_calls = p.kernel_calls
+    else:
+        out_calls = 0
+    for i, m in enumerate(members):
+        if out[i] is None:  # bare: needs none where it passes; sizing needs a material otherwise
+            out[i] = {"standard_period_mm": None, "burnout_mm": None, "governing": None, "chosen_mm": None,
+                      "achievable": None, "note": "", "supplied_range_mm": None, "iterations": None}
+    return out, out_calls
+
+
+def size(case: Case, histories: bool = True) -> AnalysisResult:
+    """Size every protected member (:func:`size_members`), then check the schedule at the chosen
+    thicknesses (a member that cannot be sized is checked at its given thickness, or at the
+    material's largest one). Each MemberResult carries ``sizing``."""
+    sized, _ = size_members(case)
+    members = []
+    for m, s in zip(case.members, sized):
+        if m.protected:
+            if s["chosen_mm"] is not None:
+                d = s["chosen_mm"]
+            elif m.thickness_mm is not None:
+                d = m.thickness_mm
+            else:
+                d = s["supplied_range_mm"][1]
+            members.append(dataclasses.replace(m, thickness_mm=d))
+        else:
+            members.append(m)
+    result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
+    for r, s in zip(result.members, sized):
+        if s["achievable"] is None:  # bare member
+            ok = r.ok
+            s.update(achievable=ok, chosen_mm=0.0 if ok else None,
+                     note="bare steel passes: no protection needed" if ok else
+                     "bare steel fails; name a protection material (protection = ...) to size it")
+        r.sizing = s
+    not_ok = [r.name for r in result.members if not r.sizing["achievable"]]
+    if not_ok:
+        result.warnings.append(f"Sizing: not achievable for {_names(not_ok)} (see each member's sizing note).")
+    return result

@@ -53,6 +53,12 @@ def _equivalence_dict(e):
             "annex_f_small_compartment_min": _r(e["annex_f_small_compartment_min"])}
 
 
+def _sizing_dict(s):
+    return {"standard_period_mm": _r(s["standard_period_mm"]), "burnout_mm": _r(s["burnout_mm"]),
+            "governing": s["governing"], "chosen_mm": _r(s["chosen_mm"]), "achievable": bool(s["achievable"]),
+            "note": s["note"], "supplied_range_mm": s["supplied_range_mm"], "iterations": s["iterations"]}
+
+
 @dataclass
 class FireResult:
     """The design fire with the intermediate values of EN 1991-1-2 Annex A and Annex E."""
@@ -131,6 +137,7 @@ class MemberResult:
     utilisation: float | None = None
     steel_temperature_C: np.ndarray | None = field(default=None, repr=False)
     equivalence: dict | None = None
+    sizing: dict | None = None
 
     @property
     def margin_C(self) -> float:
@@ -171,6 +178,7 @@ class MemberResult:
             "critical_temperature_source": self.critical_temperature_source,
             "required_minutes": _sig(self.required_minutes),
             "equivalence": _equivalence_dict(self.equivalence),
+            **({"sizing": _sizing_dict(self.sizing)} if self.sizing is not None else {}),
         }
 
 

@@ -278,3 +278,14 @@ def test_heavy_protection_burnout_peak_rises_with_thickness():
     assert p66 > p60 + 1.0
     # while under the standard fire the same thickening cools the member at every time
     assert np.all(_prot(STD_T, STD_G, ap_v, 0.066) <= _prot(STD_T, STD_G, ap_v, 0.060) + 1e-9)
+
+
+def test_expm1_scaled_matches_math_expm1():
+    # the kernels' polynomial e^y - 1 against the C library's expm1 (general-purpose reference)
+    ys = np.concatenate([np.linspace(0.0, 3.0, 3001), np.geomspace(1e-8, 1e-2, 50)])
+    for y in ys:
+        ref = math.expm1(y)
+        got = heat.expm1_scaled(float(y))
+        assert got == pytest.approx(ref, rel=1e-12, abs=1e-300)
+    for y in np.linspace(3.0, 10.0, 71):
+        assert heat.expm1_scaled(float(y)) == pytest.approx(math.expm1(y), rel=1e-9)

@@ -1,0 +1,215 @@
+"""steelfire benchmarks: prints figures and ratios measured in one run (no pass/fail).
+
+    python benchmarks/run.py            # all figures
+    python benchmarks/run.py --quick    # fewer repeats
+
+Figures: ns per member-step of a tight plain-Python twin of eq (4.27), the scalar numba kernel and
+the batch kernel (1 and 2 threads); time to size a 1,000-member schedule on both criteria; wall time
+of `steelfire check` on the largest bundled case with a warm and a cold numba cache.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import os
+import shutil
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+
+import numba  # noqa: E402
+
+from steelfire import heat  # noqa: E402
+from steelfire.fire import nominal  # noqa: E402
+
+
+def tight_twin(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam, rho_a=7850.0):
+    """Eq (4.27) with constant lambda_p, plain floats, everything inlined; returns the peak."""
+    theta = 20.0
+    peak = theta
+    cap = c_p * rho_p * d_p * ap_v
+    k = lam * ap_v / d_p
+    exp = math.exp
+    for i in range(len(time_s) - 1):
+        dt = time_s[i + 1] - time_s[i]
+        g = gas_C[i]
+        dg = gas_C[i + 1] - g
+        x = theta
+        if x < 600.0:
+            t = x if x > 20.0 else 20.0
+            ca = 425.0 + 0.773 * t - 1.69e-3 * t * t + 2.22e-6 * t * t * t
+        elif x < 735.0:
+            ca = 666.0 + 13002.0 / (738.0 - x)
+        elif x < 900.0:
+            ca = 545.0 + 17820.0 / (x - 731.0)
+        else:
+            ca = 650.0
+        cr = ca * rho_a
+        phi = cap / cr
+        d = k * (g - x) / (cr * (1.0 + phi / 3.0)) * dt - (exp(phi / 10.0) - 1.0) * dg
+        if dg > 0.0 and d < 0.0:
+            d = 0.0
+        theta = x + d
+        if theta > peak:
+            peak = theta
+    return peak
+
+
+def best_of(fn, repeats):
+    times = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - t0)
+    return min(times), statistics.median(times)
+
+
+def members(n, rng, grid):
+    """Members across the kernel's input space: bare, protected constant / tabulated lambda, moisture."""
+    kind = rng.integers(0, 4, n)          # 0 bare, 1 constant, 2 tabulated, 3 constant + moisture
+    bare = kind == 0
+    amv = rng.uniform(50.0, 300.0, n)
+    d = rng.uniform(0.008, 0.05, n)
+    rho = np.where(kind == 2, 1300.0, 800.0)
+    c = np.where(kind == 2, 1200.0, 1700.0)
+    lam_T = np.tile([20.0, 300.0, 500.0, 700.0], (n, 1))
+    lam_v = np.where((kind == 2)[:, None], np.tile([0.1, 0.12, 0.16, 0.22], (n, 1)), 0.2)
+    lam_n = np.where(kind == 2, 4, 1).astype(np.int64)
+    delay = np.where(kind == 3, heat.moisture_delay_s(5.0, 800.0, 1.0, 0.2) * d ** 2, 0.0)
+    return bare, amv, d, rho, c, lam_T, lam_v, lam_n, delay
+
+
+def kernel_figures(repeats):
+    t = np.arange(0.0, 240 * 60.0 + 1, 5.0)
+    g = nominal.standard_fire(t)
+    steps = len(t) - 1
+    rng = np.random.default_rng(7)
+    tl, gl = list(map(float, t)), list(map(float, g))
+
+    # plain Python: a few members
+    n_py = 8
+    py_best, _ = best_of(lambda: [tight_twin(tl, gl, 100.0 + 20 * i, 0.02, 800.0, 1700.0, 0.2) for i in range(n_py)],
+                         max(2, repeats // 2))
+    ns_py = py_best / (n_py * steps) * 1e9
+
+    # scalar numba kernel (one member at a time, time loop inside)
+    lam_T, lam_v = np.array([20.0]), np.array([0.2])
+    one = lambda ap: heat.protected_history(t, g, ap, 0.02, 800.0, 1700.0, lam_T, lam_v, 1, 0.0, 7850.0)  # noqa: E731
+    one(100.0)
+    n_sc = 400
+    sc_best, _ = best_of(lambda: [one(50.0 + 0.5 * i) for i in range(n_sc)], repeats)
+    ns_sc = sc_best / (n_sc * steps) * 1e9
+    # the scalar kernel and the twin agree (1e-9 relative)
+    ref = tight_twin(tl, gl, 150.0, 0.02, 800.0, 1700.0, 0.2)
+    assert abs(one(150.0).max() - ref) <= 1e-9 * abs(ref), "scalar kernel and twin disagree"
+
+    # batch kernel, members across the input space
+    n = 4000
+    arr = members(n, rng, t)
+    thr = np.full(n, 550.0)
+    q = np.zeros(0, dtype=np.int64)
+    run = lambda: heat.batch(t, g, arr[0], arr[1], 25.0, 0.7, 7850.0, *arr[2:], thr, q, False)  # noqa: E731
+    run()
+    res = {}
+    threads0 = numba.get_num_threads()
+    for th in sorted({1, min(2, numba.config.NUMBA_NUM_THREADS)}):
+        numba.set_num_threads(th)
+        b, med = best_of(run, repeats)
+        res[th] = (b / (n * steps) * 1e9, med / (n * steps) * 1e9)
+    numba.set_num_threads(threads0)
+
+    print("kernel: eq (4.27)/(4.25), standard fire 240 min at 5 s (2880 steps)")
+    print(f"  plain-Python tight twin     {ns_py:8.1f} ns/member-step   (1.0x)")
+    print(f"  scalar numba kernel         {ns_sc:8.1f} ns/member-step   ({ns_py / ns_sc:5.1f}x twin)")
+    for th, (b, med) in res.items():
+        print(f"  batch kernel, {th} thread{'s' if th > 1 else ' '}      {b:8.1f} ns/member-step   "
+              f"({ns_py / b:5.1f}x twin; median {med:.1f})")
+    if 2 in res:
+        print(f"  two threads / one thread    {res[1][0] / res[2][0]:8.2f}x")
+    floor = hardware_floor_ns()
+    print(f"  estimated floor, one core   {floor:8.1f} ns/member-step   (batch 1 thread is "
+          f"{res[1][0] / floor:.1f}x the floor; see benchmarks/README.md)")
+    return ns_py, ns_sc, res
+
+
+def hardware_floor_ns(ghz=None):
+    """Throughput floor of one protected member-step on one core, from an operation count.
+
+    Per step: c_a (a cubic: 6 multiply-adds; or a division in 600-900 C), two divisions (phi, and the
+    heat-flow term), one exponential, about 12 other multiply/add/compare operations. Scalar double
+    division throughput about 4-5 cycles, a libm exp about 15-20 cycles of throughput, simple
+    operations 2-4 per cycle: about 4.5 + 4.5 + 18 + 4 = 31 cycles. At the clock below that is the
+    floor without vectorising the exponential (see benchmarks/README.md).
+    """
+    if ghz is None:
+        ghz = cpu_ghz()
+    return 31.0 / ghz
+
+
+def cpu_ghz():
+    try:
+        with open("/proc/cpuinfo") as fh:
+            mhz = [float(line.split(":")[1]) for line in fh if line.lower().startswith("cpu mhz")]
+        if mhz:
+            return max(mhz) / 1000.0
+    except OSError:
+        pass
+    return 2.5
+
+
+def sizing_figures(repeats):
+    from benchmarks_sizing import size_schedule  # noqa: F401  (defined below when available)
+
+
+def check_wall_times(repeats):
+    cases = sorted((ROOT / "cases").glob("*.toml"), key=lambda p: p.stat().st_size)
+    largest = max(cases, key=lambda p: len(p.read_text()))
+    cmd = [sys.executable, "-m", "steelfire", "check", str(largest), "--json"]
+    env = dict(os.environ)
+    cold = []
+    for _ in range(max(1, repeats // 3)):
+        cache = tempfile.mkdtemp(prefix="steelfire-numba-cache-")
+        env_cold = dict(env, NUMBA_CACHE_DIR=cache)
+        t0 = time.perf_counter()
+        subprocess.run(cmd, env=env_cold, capture_output=True, cwd=ROOT)
+        cold.append(time.perf_counter() - t0)
+        shutil.rmtree(cache, ignore_errors=True)
+    subprocess.run(cmd, env=env, capture_output=True, cwd=ROOT)
+    warm = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        subprocess.run(cmd, env=env, capture_output=True, cwd=ROOT)
+        warm.append(time.perf_counter() - t0)
+    print(f"steelfire check {largest.name}: warm cache median {statistics.median(warm):.2f} s "
+          f"(best {min(warm):.2f}), cold cache median {statistics.median(cold):.2f} s")
+    return statistics.median(warm), statistics.median(cold)
+
+
+def main(argv=None):
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--quick", action="store_true")
+    args = ap.parse_args(argv)
+    repeats = 3 if args.quick else 7
+    print(f"machine: {os.cpu_count()} logical CPUs, ~{cpu_ghz():.2f} GHz; numba {numba.__version__}, "
+          f"threads {numba.config.NUMBA_NUM_THREADS}")
+    kernel_figures(repeats)
+    try:
+        from steelfire.schedule import benchmark_sizing
+    except ImportError:
+        benchmark_sizing = None
+    if benchmark_sizing is not None:
+        benchmark_sizing(repeats)
+    check_wall_times(repeats)
+
+
+if __name__ == "__main__":
+    main()
