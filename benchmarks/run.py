@@ -136,23 +136,36 @@ def kernel_figures(repeats):
     if 2 in res:
         print(f"  two threads / one thread    {res[1][0] / res[2][0]:8.2f}x")
     floor = hardware_floor_ns()
-    print(f"  estimated floor, one core   {floor:8.1f} ns/member-step   (batch 1 thread is "
-          f"{res[1][0] / floor:.1f}x the floor; see benchmarks/README.md)")
+    print(f"  estimated floor, one core   {floor:8.1f} ns/member-step   (throughput of the operation count; "
+          f"batch 1 thread is {res[1][0] / floor:.1f}x it)")
+    print(f"  estimated one-chain latency {latency_chain_ns():8.1f} ns/member-step   (what the scalar kernel "
+          f"can reach; it is at {ns_sc / latency_chain_ns():.1f}x)")
     return ns_py, ns_sc, res
 
 
-def hardware_floor_ns(ghz=None):
-    """Throughput floor of one protected member-step on one core, from an operation count.
+#: Operation count of one protected member-step of the batch kernel (see benchmarks/README.md).
+LANE_OPS = 70          # add/mul/FMA/compare/blend operations per member-step, divisions excluded
+DIVISIONS = 2          # c_a's 600-900 C branch and eq (4.27)'s combined denominator
+LANES = 4              # doubles per 256-bit data path (AVX-512 instructions run as 2 x 256 bits on Zen 4)
+PORTS = 4              # floating-point pipes: 2 multiply/FMA + 2 add
+DIV_CYCLES_PER_LANE = 1.25   # vdivpd ymm: about one per 5 cycles for 4 doubles
 
-    Per step: c_a (a cubic: 6 multiply-adds; or a division in 600-900 C), two divisions (phi, and the
-    heat-flow term), one exponential, about 12 other multiply/add/compare operations. Scalar double
-    division throughput about 4-5 cycles, a libm exp about 15-20 cycles of throughput, simple
-    operations 2-4 per cycle: about 4.5 + 4.5 + 18 + 4 = 31 cycles. At the clock below that is the
-    floor without vectorising the exponential (see benchmarks/README.md).
-    """
+
+def hardware_floor_ns(ghz=None):
+    """Throughput floor of one member-step on one core: LANE_OPS / (LANES x PORTS) cycles for the
+    arithmetic plus DIVISIONS x DIV_CYCLES_PER_LANE for the divisions (about 6.9 cycles)."""
     if ghz is None:
         ghz = cpu_ghz()
-    return 31.0 / ghz
+    cycles = LANE_OPS / (LANES * PORTS) + DIVISIONS * DIV_CYCLES_PER_LANE
+    return cycles / ghz
+
+
+def latency_chain_ns(ghz=None):
+    """One member alone (the scalar kernel): the step is a dependent chain of about 70 cycles
+    (c_a 13-16, a division 13, libm exp about 20, multiplies and adds 4 each)."""
+    if ghz is None:
+        ghz = cpu_ghz()
+    return 70.0 / ghz
 
 
 def cpu_ghz():
@@ -164,10 +177,6 @@ def cpu_ghz():
     except OSError:
         pass
     return 2.5
-
-
-def sizing_figures(repeats):
-    from benchmarks_sizing import size_schedule  # noqa: F401  (defined below when available)
 
 
 def check_wall_times(repeats):

@@ -31,6 +31,9 @@ def _parser():
     c.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
     c.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _run_check
                    help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
+    c.add_argument("--out", default=None, metavar="DIR",
+                   help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
+                        "self-contained report.html into DIR (created if missing)")
     return p
 
 
@@ -104,6 +107,10 @@ def _run_check(args) -> int:
     from .case import with_time_step
     from .errors import InputError
 
+    if args.out is not None:
+        from .output import check_out_dir
+
+        check_out_dir(args.out)  # a bad --out fails (exit 2) before the analysis runs
     case = load_case(args.case)
     if args.time_step_s is not None:
         try:
@@ -111,12 +118,25 @@ def _run_check(args) -> int:
         except ValueError:
             raise InputError("--time-step-s", args.time_step_s, "must be a number [s]") from None
         case = with_time_step(case, step)
-    result = analyse(case, histories=False)
+    result = analyse(case, histories=args.out is not None)
+    _write(result, args, case, "check")
     if args.json:
         sys.stdout.write(json.dumps(result.to_dict(), indent=2, allow_nan=False) + "\n")
     else:
         sys.stdout.write(render_table(result) + "\n")
     return EXIT_OK if result.all_ok else EXIT_FAIL
+
+
+def _write(result, args, case, command):
+    if args.out is None:
+        return
+    from .errors import InputError
+    from .output import write_outputs
+
+    try:
+        write_outputs(result, args.out, args.case, command=command, case=case)
+    except OSError as exc:
+        raise InputError("--out", args.out, f"could not be written ({exc.strerror or exc})") from None
 
 
 def main(argv=None) -> int:

@@ -1,0 +1,470 @@
+"""Figures of the report: design fire, steel temperatures, equivalent times, protection thickness.
+
+matplotlib is imported inside the functions only (Agg canvas, no pyplot, no change of the user's
+backend or rcParams: every figure is drawn inside ``matplotlib.rc_context``), so ``import steelfire``
+and the check command never load it.
+
+Numbers drawn come from the result document (the rounded values of results.json) where the document
+has them, and from the result objects for the time histories (numpy arrays, not in the JSON).
+"""
+
+from __future__ import annotations
+
+import io
+import math
+import re
+from dataclasses import dataclass
+
+#: Figures the report may hold, in report order (file names ``fig_<name>.png`` / ``.svg``).
+FIGURE_NAMES = ("design_fire", "steel_temperatures", "time_equivalence", "thickness")
+
+#: Schedules up to this many members are plotted whole; above it a selection is plotted.
+PLOT_ALL_MAX = 12
+#: Size of the selection for longer schedules (the smallest margins).
+PLOT_SELECTION = 8
+#: Most points per plotted curve (histories are thinned for drawing; the CSV keeps them all).
+MAX_CURVE_POINTS = 700
+
+# Our own palette: distinct in lightness as well as hue, so that the figures read in grey print and
+# for the common colour-vision deficiencies; bars carry hatching as a second cue.
+INK = "#1c232b"
+GRID = "#d6dbe1"
+DESIGN_FIRE = "#b0431c"   # burnt orange-red, solid
+STANDARD = "#56616d"      # slate, dashed
+GAS_TINT = "#e4bcab"      # pale design-fire tint behind steel curves
+STEEL = "#22507d"         # deep blue
+CRITICAL = "#c8850f"      # ochre, dashed
+ANNEX_F = "#22507d"       # deep blue
+CIB_W14 = "#a9d2c9"       # pale sea green, hatched
+EQUAL_T = "#dd9c2c"       # amber
+MARKER = INK
+
+FIG_WIDTH_IN = 7.0
+
+_RC = {
+    "font.family": "sans-serif",
+    "font.sans-serif": ["DejaVu Sans", "Liberation Sans", "Arial", "Helvetica"],
+    "font.size": 9, "axes.titlesize": 9, "axes.labelsize": 9, "xtick.labelsize": 8, "ytick.labelsize": 8,
+    "legend.fontsize": 8, "axes.edgecolor": INK, "axes.labelcolor": INK, "xtick.color": INK,
+    "ytick.color": INK, "text.color": INK, "axes.linewidth": 0.7, "axes.grid": True, "grid.color": GRID,
+    "grid.linewidth": 0.5, "axes.axisbelow": True, "axes.spines.top": False, "axes.spines.right": False,
+    "legend.frameon": False, "lines.linewidth": 1.4, "hatch.linewidth": 0.6, "hatch.color": INK,
+    "svg.fonttype": "none", "svg.hashsalt": "steelfire", "path.simplify": True, "savefig.dpi": 200,
+    "figure.dpi": 100, "axes.titlelocation": "left", "axes.titleweight": "bold",
+}
+
+
+@dataclass
+class RenderedFigure:
+    """One figure: file stem, caption (plain text), PNG bytes, SVG text (standalone file)."""
+
+    name: str
+    caption: str
+    png: bytes
+    svg: str
+
+
+# ----------------------------------------------------------------------------------------------
+# what to plot
+
+
+def select_members(doc) -> tuple:
+    """Indices of the members to plot, and the selection note (None when all are plotted).
+
+    Schedules of more than PLOT_ALL_MAX members: the PLOT_SELECTION smallest margins (worst first).
+    """
+    ms = doc["members"]
+    n = len(ms)
+    if n <= PLOT_ALL_MAX:
+        return list(range(n)), None
+    key = [(m["margin_C"] if m["margin_C"] is not None else math.inf, i) for i, m in enumerate(ms)]
+    idx = [i for _, i in sorted(key)[:PLOT_SELECTION]]
+    note = (f"the {PLOT_SELECTION} members with the smallest margins theta_cr - theta_peak, of {n}, worst first")
+    return idx, note
+
+
+def _has_equivalence(doc, idx) -> bool:
+    """Any selected member with an equivalence entry (a null equal-temperature time is drawn at the horizon)."""
+    return any(doc["members"][i].get("equivalence") for i in idx)
+
+
+def _sizing_selection(doc) -> tuple:
+    ms = doc["members"]
+    sized = [i for i, m in enumerate(ms) if isinstance(m.get("sizing"), dict)]
+    if len(sized) <= PLOT_ALL_MAX:
+        return sized, None
+
+    def need(i):
+        s = ms[i]["sizing"]
+        vals = [s.get(k) for k in ("chosen_mm", "standard_period_mm", "burnout_mm")]
+        vals = [v for v in vals if isinstance(v, (int, float)) and not isinstance(v, bool)]
+        return (s.get("achievable") is not False, -(max(vals) if vals else 0.0), i)
+
+    idx = sorted(sized, key=need)[:PLOT_SELECTION]
+    note = (f"the {PLOT_SELECTION} members needing the most protection (not achievable first), of {len(sized)} sized")
+    return idx, note
+
+
+def plan(doc, history_names) -> dict:
+    """Which figures the report holds and which members they show (goes into results.json "report")."""
+    idx, note = select_members(doc)
+    have_hist = set(history_names)
+    hist_idx = [i for i in idx if doc["members"][i]["name"] in have_hist]
+    figs = ["design_fire"]
+    if hist_idx:
+        figs.append("steel_temperatures")
+    if idx and _has_equivalence(doc, idx):
+        figs.append("time_equivalence")
+    s_idx, s_note = _sizing_selection(doc)
+    if s_idx:
+        figs.append("thickness")
+    return {"figures": figs,
+            "plotted_members": [doc["members"][i]["name"] for i in idx],
+            "plotted_member_indices": idx,
+            "selection": note,
+            "histories_kept": len(have_hist),
+            "history_plot_member_indices": hist_idx,
+            "sizing_plot_member_indices": s_idx,
+            "sizing_selection": s_note}
+
+
+# ----------------------------------------------------------------------------------------------
+# helpers
+
+
+def _mpl_text(s: str) -> str:
+    """User text for matplotlib: no mathtext interpretation of '$'."""
+    return str(s).replace("$", r"\$")
+
+
+def _short(name: str, most: int) -> str:
+    """A member name cut to ``most`` characters for a panel title (the tables carry it whole)."""
+    name = str(name)
+    return name if len(name) <= most else name[: most - 1] + "…"
+
+
+def _thin(t, y, keep=(), most=MAX_CURVE_POINTS):
+    """At most ``most`` points of a curve for drawing, always keeping the indices in ``keep`` and the ends."""
+    import numpy as np
+
+    n = len(t)
+    if n <= most:
+        return t, y
+    idx = np.unique(np.concatenate([np.linspace(0, n - 1, most).round().astype(int),
+                                    np.asarray([k for k in keep if 0 <= k < n], dtype=int)]))
+    return t[idx], y[idx]
+
+
+def _figure(height_in):
+    from matplotlib.figure import Figure
+
+    return Figure(figsize=(FIG_WIDTH_IN, height_in), layout="constrained")
+
+
+def _save(fig, name, caption) -> RenderedFigure:
+    png = io.BytesIO()
+    fig.savefig(png, format="png", metadata={"Software": None})
+    svg = io.StringIO()
+    fig.savefig(svg, format="svg", metadata={"Date": None, "Creator": None})
+    return RenderedFigure(name=name, caption=caption, png=png.getvalue(), svg=svg.getvalue())
+
+
+def _num(v):
+    return isinstance(v, (int, float)) and not isinstance(v, bool)
+
+
+def _fmt(v) -> str:
+    from ..output import format_number
+
+    return format_number(v)
+
+
+# ----------------------------------------------------------------------------------------------
+# (a) the design fire against the standard curve
+
+
+def design_fire_figure(doc, result):
+    """The design fire's gas temperature against the standard curve (EN 1991-1-2 eq (3.4)), t_max marked."""
+    import numpy as np
+
+    from ..fire import nominal
+
+    f = doc["fire"]
+    t_s = np.asarray(result.fire.time_s, dtype=float)
+    g = np.asarray(result.fire.gas_temperature_C, dtype=float)
+    t = t_s / 60.0
+    ipk = int(np.argmax(g))
+    fig = _figure(3.4)
+    ax = fig.add_subplot()
+    curve = f["curve"]
+    label = {"parametric": "design fire: EN 1991-1-2 Annex A parametric", "table": "design fire: tabulated",
+             "standard": "design fire: standard curve, eq (3.4)",
+             "hydrocarbon": "design fire: hydrocarbon curve, eq (3.6)",
+             "external": "design fire: external fire curve, eq (3.5)"}.get(curve, f"design fire: {curve}")
+    keep = [ipk]
+    if _num(f.get("t_max_min")):
+        keep.append(int(np.argmin(abs(t - f["t_max_min"]))))
+    tt, gg = _thin(t, g, keep)
+    ax.plot(tt, gg, color=DESIGN_FIRE, lw=1.7, label=label, zorder=3)
+    if curve != "standard":
+        ts = np.linspace(0.0, t_s[-1], 400)
+        ax.plot(ts / 60.0, nominal.standard_fire(ts), color=STANDARD, lw=1.1, ls=(0, (5, 3)),
+                label="standard fire (ISO 834), EN 1991-1-2 eq (3.4)", zorder=2)
+    ax.plot([f["time_of_peak_gas_min"]], [f["peak_gas_temperature_C"]], marker="v", ms=6, color=INK, ls="none",
+            clip_on=False,
+            label=f"peak {_fmt(f['peak_gas_temperature_C'])} °C at {_fmt(f['time_of_peak_gas_min'])} min", zorder=4)
+    if _num(f.get("t_max_min")):
+        ax.axvline(f["t_max_min"], color=INK, lw=0.9, ls=(0, (1, 2)), zorder=1)
+        ax.annotate(f"$t_\\mathrm{{max}}$ = {_fmt(f['t_max_min'])} min, eq (A.4)", xy=(f["t_max_min"], 0.97),
+                    xycoords=("data", "axes fraction"), xytext=(4, 0), textcoords="offset points", fontsize=8,
+                    ha="left", va="top")
+    if _num(f.get("burnout_time_min")) and f["burnout_time_min"] <= t[-1]:
+        ax.axvline(f["burnout_time_min"], color=STANDARD, lw=0.7, ls=(0, (1, 3)), zorder=1)
+        ax.annotate("burnout", xy=(f["burnout_time_min"], 0.04), xycoords=("data", "axes fraction"),
+                    xytext=(-4, 0), textcoords="offset points", fontsize=8, ha="right", va="bottom")
+    ax.set_xlim(0, t[-1])
+    top = float(g.max())
+    if curve != "standard":
+        top = max(top, float(nominal.standard_fire(np.array([t_s[-1]]))[0]))
+    ax.set_ylim(0, top * 1.15)
+    ax.set_xlabel("time t [min]")
+    ax.set_ylabel(r"gas temperature $\theta_\mathrm{g}$ [°C]")
+    fig.legend(*ax.get_legend_handles_labels(), loc="outside upper center", ncols=2)
+    cap = "Design fire (gas temperature) over duration_min"
+    if curve != "standard":
+        cap += ", with the standard fire for reference"
+    if _num(f.get("t_max_min")):
+        cap += "; the dotted line marks t_max of EN 1991-1-2 Annex A eq (A.4)"
+    cap += "."
+    return fig, cap
+
+
+# ----------------------------------------------------------------------------------------------
+# (b) steel temperature of each member
+
+
+def steel_temperatures_figure(doc, result, idx, note):
+    """Small multiples: each member's steel temperature with its critical temperature and the time of its peak."""
+    import numpy as np
+
+    t = np.asarray(result.fire.time_s, dtype=float) / 60.0
+    g = np.asarray(result.fire.gas_temperature_C, dtype=float)
+    n = len(idx)
+    ncols = n if n <= 3 else (2 if n == 4 else 3)
+    nrows = math.ceil(n / ncols)
+    fig = _figure(3.0 if n == 1 else 0.7 + 1.75 * nrows)
+    axes = fig.subplots(nrows, ncols, sharex=True, sharey=True, squeeze=False)
+    tg, gg = _thin(t, g, [int(np.argmax(g))])
+    ymax = max(float(g.max()), max(doc["members"][i]["critical_temperature_C"] for i in idx)) * 1.08
+    for k, ax in enumerate(axes.flat):
+        if k >= n:
+            ax.set_visible(False)
+            continue
+        i = idx[k]
+        d = doc["members"][i]
+        h = np.asarray(result.members[i].steel_temperature_C, dtype=float)
+        ipk = int(np.argmax(h))
+        ts, hs = _thin(t, h, [ipk])
+        ax.plot(tg, gg, color=GAS_TINT, lw=1.0, label="gas (design fire)")
+        ax.plot(ts, hs, color=STEEL, lw=1.5, label=r"steel $\theta_\mathrm{a}$")
+        ax.axhline(d["critical_temperature_C"], color=CRITICAL, lw=1.2, ls=(0, (4, 2)),
+                   label=r"critical $\theta_\mathrm{a,cr}$")
+        ax.axvline(d["time_of_peak_steel_min"], color=INK, lw=0.7, ls=(0, (1, 2)))
+        ax.plot([d["time_of_peak_steel_min"]], [d["peak_steel_temperature_C"]], marker="v", ms=5, color=INK,
+                ls="none", label="peak steel", clip_on=False, zorder=5)
+        verdict = "pass" if d["passes"] else "FAIL"
+        ax.set_title(f"{_mpl_text(_short(d['name'], 28 if ncols == 3 else 44))}\n"
+                     f"margin {_fmt(d['margin_C'])} °C, {verdict}", fontsize=8, linespacing=1.3)
+        ax.set_xlim(0, t[-1])
+        ax.set_ylim(0, ymax)
+    for col in range(ncols):  # the lowest visible panel of each column carries the time axis
+        rows_used = [r for r in range(nrows) if r * ncols + col < n]
+        if rows_used:
+            ax = axes[rows_used[-1], col]
+            ax.xaxis.set_tick_params(labelbottom=True)
+            ax.set_xlabel("time t [min]")
+    for ax in axes[:, 0]:
+        ax.set_ylabel("temperature [°C]")
+    h_, l_ = axes.flat[0].get_legend_handles_labels()
+    fig.legend(h_, l_, loc="outside upper center", ncols=4)
+    cap = ("Steel temperature of each member in the design fire (EN 1993-1-2 4.2.5), its critical temperature "
+           "(dashed) and the time of its peak (dotted)")
+    cap += f"; shown: {note}. Every member's history is in histories.csv." if note else "."
+    return fig, cap
+
+
+# ----------------------------------------------------------------------------------------------
+# (c) equivalent times per member
+
+
+def time_equivalence_figure(doc, idx, note):
+    """Grouped bars per member: Annex F, CIB W14, equal steel temperature; the required period as a marker."""
+    import numpy as np
+
+    horizon = doc["analysis"]["standard_horizon_min"]
+    names = [_mpl_text(doc["members"][i]["name"]) for i in idx]
+    x = np.arange(len(idx), dtype=float)
+    w = 0.26
+    fig = _figure(3.6)
+    ax = fig.add_subplot()
+    routes = (("annex_f_min", "EN 1991-1-2 Annex F, eq (F.1)", ANNEX_F, None),
+              ("cib_w14_min", "CIB W14", CIB_W14, "////"),
+              ("equal_temperature_min", "equal steel temperature", EQUAL_T, None))
+    beyond_drawn = False
+    for j, (key, label, colour, hatch) in enumerate(routes):
+        vals, xs, beyond = [], [], []
+        for k, i in enumerate(idx):
+            e = doc["members"][i].get("equivalence") or {}
+            v = e.get(key)
+            if v is None and key == "equal_temperature_min" and e:
+                beyond.append(x[k] + (j - 1) * w)
+                continue
+            if _num(v):
+                vals.append(v)
+                xs.append(x[k] + (j - 1) * w)
+            elif e:
+                ax.annotate("n/a", xy=(x[k] + (j - 1) * w, 0), xytext=(0, 3), textcoords="offset points",
+                            ha="center", va="bottom", fontsize=7.5, color=STANDARD)
+        if xs:
+            ax.bar(xs, vals, width=w, color=colour, edgecolor=INK, linewidth=0.5, hatch=hatch, label=label)
+        if beyond:
+            ax.bar(beyond, [horizon] * len(beyond), width=w, color="white", edgecolor=EQUAL_T, linewidth=1.0,
+                   hatch="xx", label=f"equal temperature beyond the horizon (> {_fmt(horizon)} min)")
+            beyond_drawn = True
+    req = [(x[k], doc["members"][i]["required_minutes"]) for k, i in enumerate(idx)
+           if _num(doc["members"][i].get("required_minutes"))]
+    if req:
+        ax.scatter([r[0] for r in req], [r[1] for r in req], marker="D", s=30, color=MARKER, zorder=5,
+                   label="required period")
+        for xr, v in req:
+            ax.plot([xr - 1.6 * w, xr + 1.6 * w], [v, v], color=MARKER, lw=1.0, zorder=4)
+    ax.set_xticks(x)
+    ax.set_xticklabels(names, rotation=30 if len(idx) > 4 else 0, ha="right" if len(idx) > 4 else "center")
+    ax.set_xlim(-0.6, len(idx) - 0.4)
+    ax.set_ylim(bottom=0)
+    ax.set_ylabel(r"equivalent time $t_\mathrm{e}$ [min]")
+    ax.grid(axis="x", visible=False)
+    handles, labels = ax.get_legend_handles_labels()
+    order = sorted(range(len(labels)), key=lambda j: labels[j] == "required period")
+    fig.legend([handles[j] for j in order], [labels[j] for j in order], loc="outside upper center",
+               ncols=len(labels) if len(labels) <= 4 and not beyond_drawn else 3)
+    cap = ("Equivalent time of standard fire exposure per member by EN 1991-1-2 Annex F, CIB W14 and equal "
+           "steel temperature (the standard-fire time at which the member reaches its design-fire peak); "
+           "diamonds: the required period")
+    cap += f"; shown: {note}." if note else "."
+    return fig, cap
+
+
+# ----------------------------------------------------------------------------------------------
+# (d) protection thickness for sizing runs
+
+
+def thickness_figure(doc, idx, note):
+    """Per member: least thickness for the standard period and for burnout, the chosen thickness, the case's."""
+    import numpy as np
+
+    fig = _figure(3.4)
+    ax = fig.add_subplot()
+    x = np.arange(len(idx), dtype=float)
+    w = 0.34
+    names = [_mpl_text(doc["members"][i]["name"]) for i in idx]
+    bars = (("standard_period_mm", "least for the standard period", ANNEX_F, None),
+            ("burnout_mm", "least for the design fire (burnout)", EQUAL_T, "////"))
+    for j, (key, label, colour, hatch) in enumerate(bars):
+        xs, vs = [], []
+        for k, i in enumerate(idx):
+            v = doc["members"][i]["sizing"].get(key)
+            if _num(v):
+                xs.append(x[k] + (j - 0.5) * w)
+                vs.append(v)
+        if xs:
+            ax.bar(xs, vs, width=w, color=colour, edgecolor=INK, linewidth=0.5, hatch=hatch, label=label)
+    ch = [(x[k], doc["members"][i]["sizing"].get("chosen_mm")) for k, i in enumerate(idx)]
+    ch = [c for c in ch if _num(c[1])]
+    if ch:
+        ax.scatter([c[0] for c in ch], [c[1] for c in ch], marker="D", s=30, color=MARKER, zorder=5, label="chosen")
+    cur = [(x[k], doc["members"][i].get("thickness_mm")) for k, i in enumerate(idx)]
+    cur = [c for c in cur if _num(c[1])]
+    if cur:
+        ax.scatter([c[0] for c in cur], [c[1] for c in cur], marker="_", s=260, linewidths=1.6, color=STANDARD,
+                   zorder=4, label="thickness in the case")
+    for k, i in enumerate(idx):
+        s = doc["members"][i]["sizing"]
+        if s.get("achievable") is False:
+            top = [v for v in (s.get("standard_period_mm"), s.get("burnout_mm"), s.get("chosen_mm"),
+                               doc["members"][i].get("thickness_mm")) if _num(v)]
+            ax.annotate("not achievable", xy=(x[k], max(top) if top else 0.0), xytext=(0, 5),
+                        textcoords="offset points", ha="center", va="bottom", fontsize=7.5, fontweight="bold")
+    ax.set_xticks(x)
+    ax.set_xticklabels(names, rotation=30 if len(idx) > 4 else 0, ha="right" if len(idx) > 4 else "center")
+    ax.set_xlim(-0.6, len(idx) - 0.4)
+    ax.set_ylim(bottom=0)
+    ax.set_ylabel(r"protection thickness $d_\mathrm{p}$ [mm]")
+    ax.set_ylim(top=ax.get_ylim()[1] * 1.08)
+    ax.grid(axis="x", visible=False)
+    handles, labels = ax.get_legend_handles_labels()
+    rank = {"least for the standard period": 0, "least for the design fire (burnout)": 1, "chosen": 2}
+    order = sorted(range(len(labels)), key=lambda j: rank.get(labels[j], 3))
+    fig.legend([handles[j] for j in order], [labels[j] for j in order], loc="outside upper center", ncols=2)
+    cap = "Protection thickness per member: the least thickness for each criterion and the thickness chosen"
+    cap += f"; shown: {note}." if note else "."
+    return fig, cap
+
+
+# ----------------------------------------------------------------------------------------------
+
+
+def render_figures(doc, result) -> list:
+    """Every figure the plan in ``doc["report"]`` names, as :class:`RenderedFigure` (PNG + SVG)."""
+    import matplotlib
+
+    rep = doc["report"]
+    out = []
+    with matplotlib.rc_context(_RC):
+        for name in rep["figures"]:
+            if name == "design_fire":
+                fig, cap = design_fire_figure(doc, result)
+            elif name == "steel_temperatures":
+                fig, cap = steel_temperatures_figure(doc, result, rep["history_plot_member_indices"],
+                                                     rep["selection"])
+            elif name == "time_equivalence":
+                fig, cap = time_equivalence_figure(doc, rep["plotted_member_indices"], rep["selection"])
+            elif name == "thickness":
+                fig, cap = thickness_figure(doc, rep["sizing_plot_member_indices"], rep["sizing_selection"])
+            else:  # pragma: no cover - plan() names only the above
+                raise ValueError(name)
+            out.append(_save(fig, name, cap))
+    return out
+
+
+# ----------------------------------------------------------------------------------------------
+# SVG for inlining in the HTML report
+
+_ID = re.compile(r'\bid="([^"]+)"')
+_HREF = re.compile(r'((?:xlink:)?href)="#([^"]+)"')
+_URL = re.compile(r"url\(#([^)]+)\)")
+
+
+def inline_svg(svg: str, prefix: str, label: str = "") -> str:
+    """A standalone SVG made fit to sit inside HTML: no XML prolog, DOCTYPE, metadata or namespace
+    declarations (the HTML parser puts <svg> in its namespace), ids and references prefixed with
+    ``prefix`` so that several figures never share an id, the stylesheet scoped to this figure, and
+    the fixed width/height replaced by CSS sizing (the viewBox is kept)."""
+    import html as _html
+
+    s = re.sub(r"<\?xml[^>]*\?>\s*", "", svg)
+    s = re.sub(r"<!DOCTYPE[^>]*>\s*", "", s)
+    s = re.sub(r"<metadata>.*?</metadata>\s*", "", s, flags=re.S)
+    s = re.sub(r'\s+xmlns(?::\w+)?="[^"]*"', "", s)
+    s = _ID.sub(lambda m: f'id="{prefix}-{m.group(1)}"', s)
+    s = _HREF.sub(lambda m: f'{m.group(1)}="#{prefix}-{m.group(2)}"', s)
+    s = _URL.sub(lambda m: f"url(#{prefix}-{m.group(1)})", s)
+    s = s.replace("*{stroke-linejoin", f"#{prefix} *{{stroke-linejoin")
+    lab = _html.escape(label, quote=True)
+
+    def root(m):
+        attrs = re.sub(r'\s(?:width|height)="[^"]*"', "", m.group(1))
+        return f'<svg id="{prefix}" class="figure-svg" role="img" aria-label="{lab}"{attrs}>'
+
+    s = re.sub(r"<svg\b([^>]*)>", root, s, count=1)
+    return s.strip()
