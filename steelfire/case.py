@@ -290,9 +290,10 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
 
     limit, clause = time_step_limit(members, code)
     check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
+    check_protection_step(members, materials, code, analysis.time_step_s)
     for i, m in enumerate(members):
         if m.required_minutes is not None and m.required_minutes > analysis.standard_horizon_min:
-            raise InputError(f"member[{i + 1}].required_minutes", m.required_minutes,
+            raise InputError(f"member[{i + 1}] ({m.name}).required_minutes", m.required_minutes,
                              f"must be <= analysis.standard_horizon_min = {analysis.standard_horizon_min:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
@@ -324,6 +325,7 @@ def with_time_step(case: Case, time_step_s, field="--time-step-s") -> Case:
 
     limit, clause = time_step_limit(case.members, case.code)
     check_time_step(time_step_s, limit, clause, case.fire.duration_min, case.analysis.standard_horizon_min, field)
+    check_protection_step(case.members, case.materials, case.code, time_step_s, field)
     return dataclasses.replace(case, analysis=dataclasses.replace(case.analysis, time_step_s=float(time_step_s)))
 
 
@@ -336,6 +338,37 @@ def check_time_step(time_step_s, limit_s, clause, duration_min, horizon_min, fie
     if points > MAX_GRID_POINTS:
         raise InputError(field, time_step_s,
                          f"gives {points:.3g} steps; at most {MAX_GRID_POINTS:.0e} (use a larger step)")
+
+
+#: Smallest specific heat of carbon steel [J/(kg K)]: EN 1993-1-2 eq (3.2a) at 20 C (it rises from there).
+STEEL_SPECIFIC_HEAT_MIN = 425.0 + 0.773 * 20.0 - 1.69e-3 * 20.0 ** 2 + 2.22e-6 * 20.0 ** 3
+
+
+def check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s"):
+    """Refuse protection so thin that eq (4.27), stepped explicitly, overshoots the gas in one step.
+
+    EN 1993-1-2 eq (4.27) moves the steel by a (theta_g - theta_a) per step with
+    a = lambda_p (Ap/V) dt / (d_p c_a rho_a (1 + phi/3)), phi = c_p rho_p d_p (Ap/V) / (c_a rho_a).
+    Above a = 1 the steel passes the gas temperature within a step, and the history oscillates and
+    grows without bound. Checked with the material's largest conductivity and the smallest c_a;
+    a = 1 gives the least thickness d_min = 2 L / (B + sqrt(B^2 + 4 A L)), where
+    A = c_p rho_p (Ap/V) / 3, B = c_a rho_a and L = lambda_p (Ap/V) dt.
+    """
+    ca_rho = STEEL_SPECIFIC_HEAT_MIN * code["steel_density_kg_m3"]
+    for i, m in enumerate(members):
+        if not m.protected:
+            continue
+        mat = materials[m.protection]
+        lam = max(v for _, v in mat.conductivity_table)
+        quad = mat.specific_heat * mat.density * m.section_factor_per_m / 3.0
+        load = lam * m.section_factor_per_m * time_step_s
+        d_min_mm = 1e3 * 2.0 * load / (ca_rho + math.sqrt(ca_rho ** 2 + 4.0 * quad * load))
+        if m.thickness_mm < d_min_mm:
+            raise InputError(
+                f"member[{i + 1}] ({m.name}).thickness_mm", m.thickness_mm,
+                f"too thin for the time step {time_step_s:g} s ({field}): eq (4.27) of EN 1993-1-2, stepped "
+                f"explicitly, needs d_p >= {d_min_mm:.3g} mm here (lambda_p = {lam:g} W/(m K), "
+                f"Ap/V = {m.section_factor_per_m:g} 1/m); give a thicker protection or a smaller time step")
 
 
 def _read_fire(t: _Table | None, base_dir: Path) -> FireSpec:
@@ -411,12 +444,10 @@ def _read_compartment(data) -> Compartment:
             lt.done()
         surfaces.append(Surface(area, tuple(layers)))
     area_openings = sum(o.area_m2 for o in openings)
-    if area_openings >= at:
+    if at < 2 * af + area_openings:
         raise InputError("compartment.boundary_area_m2", at,
-                         f"must exceed the total opening area {area_openings:g} m2")
-    if at < 2 * af:
-        raise InputError("compartment.boundary_area_m2", at,
-                         f"must be at least floor + ceiling = 2 x floor_area_m2 = {2 * af:g} m2")
+                         f"must be at least floor + ceiling + vertical openings = 2 x floor_area_m2 + A_v = "
+                         f"2 x {af:g} + {area_openings:g} = {2 * af + area_openings:g} m2 (A_t includes the openings)")
     return Compartment(floor_area_m2=af, height_m=h, boundary_area_m2=at, openings=tuple(openings),
                        thermal_inertia=b, surfaces=tuple(surfaces), roof_opening_area_m2=ah)
 

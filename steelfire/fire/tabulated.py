@@ -40,6 +40,8 @@ def read_curve_csv(path, field: str = "fire.file") -> TabulatedFire:
             rows = list(csv.reader(fh))
     except (OSError, UnicodeDecodeError) as exc:
         raise InputError(field, str(path), f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})") from None
+    except csv.Error as exc:
+        raise InputError(field, str(path), f"must be a CSV file of two columns time_min,temperature_C ({exc})") from None
     rows = [r for r in rows if r and not r[0].lstrip().startswith("#") and any(c.strip() for c in r)]
     if not rows:
         raise InputError(field, str(path), "is empty; needs a header time_min,temperature_C and rows")
