@@ -179,6 +179,59 @@ def cpu_ghz():
     return 2.5
 
 
+def sizing_case(n=1000, seed=3):
+    """1,000 members across the kernel's input space on the parametric fire of cases/archive_room.toml,
+    run for 240 min at 5 s: bare, protected with constant and tabulated conductivity, with moisture."""
+    import sys as _sys
+
+    if _sys.version_info >= (3, 11):
+        import tomllib
+    else:  # pragma: no cover
+        import tomli as tomllib
+    from steelfire.case import case_from_dict
+
+    base = tomllib.loads((ROOT / "cases" / "archive_room.toml").read_text())
+    base["fire"]["duration_min"] = 240.0
+    base["analysis"] = {"time_step_s": 5.0, "standard_horizon_min": 240.0}
+    base["materials"] = {
+        "board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0, "min_thickness_mm": 5.0,
+                  "max_thickness_mm": 100.0, "thickness_step_mm": 0.5},
+        "wet": {"density": 600.0, "conductivity": 0.15, "specific_heat": 1200.0, "moisture_percent": 3.0,
+                "min_thickness_mm": 5.0, "max_thickness_mm": 100.0, "thickness_step_mm": 0.5},
+        "table": {"density": 1300.0, "conductivity": [[20.0, 0.10], [300.0, 0.12], [500.0, 0.16], [700.0, 0.22]],
+                  "specific_heat": 1200.0, "min_thickness_mm": 5.0, "max_thickness_mm": 100.0,
+                  "thickness_step_mm": 0.5},
+    }
+    rng = np.random.default_rng(seed)
+    members = []
+    for i in range(n):
+        kind = i % 4
+        m = {"name": f"M{i:04d}", "kind": "tension", "section_factor_per_m": float(rng.uniform(50.0, 300.0)),
+             "critical_temperature_C": float(rng.uniform(500.0, 700.0)),
+             "required_minutes": float(rng.choice([30.0, 60.0, 90.0, 120.0]))}
+        if kind:
+            m["protection"] = ("board", "table", "wet")[kind - 1]
+        else:
+            m["required_minutes"] = 15.0
+        members.append(m)
+    base["member"] = members
+    return case_from_dict(base, base_dir=ROOT / "cases")
+
+
+def sizing_figures(repeats):
+    from steelfire.analysis import size, size_members
+
+    case = sizing_case()
+    size_members(case)  # warm
+    b, med = best_of(lambda: size_members(case), max(2, repeats // 2))
+    calls = size_members(case)[1]
+    b2, med2 = best_of(lambda: size(case, histories=False), max(2, repeats // 2))
+    print(f"sizing 1,000 members (both criteria, archive_room fire 240 min at 5 s): "
+          f"{med:.2f} s median (best {b:.2f}, {calls} kernel calls); with the check at the chosen "
+          f"thicknesses {med2:.2f} s median")
+    return med, med2
+
+
 def check_wall_times(repeats):
     cases = sorted((ROOT / "cases").glob("*.toml"), key=lambda p: p.stat().st_size)
     largest = max(cases, key=lambda p: len(p.read_text()))
@@ -211,12 +264,7 @@ def main(argv=None):
     print(f"machine: {os.cpu_count()} logical CPUs, ~{cpu_ghz():.2f} GHz; numba {numba.__version__}, "
           f"threads {numba.config.NUMBA_NUM_THREADS}")
     kernel_figures(repeats)
-    try:
-        from steelfire.schedule import benchmark_sizing
-    except ImportError:
-        benchmark_sizing = None
-    if benchmark_sizing is not None:
-        benchmark_sizing(repeats)
+    sizing_figures(repeats)
     check_wall_times(repeats)
 
 

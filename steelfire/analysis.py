@@ -154,8 +154,12 @@ def _critical(member, code):
     return steel.critical_temperature(member.utilisation), "EN 1993-1-2 eq (4.22)"
 
 
+NOMINAL_CURVES = ("standard", "external", "hydrocarbon")
+
+
 def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False):
-    """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch`)."""
+    """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch`); ``nominal_fire``
+    selects the shadow factor of EN 1993-1-2 eq (4.26a) (nominal fires) or (4.26b)."""
     n = len(members)
     k = max([len(case.materials[m.protection].conductivity_table) for m in members if m.protected] + [1])
     bare = np.zeros(n, dtype=np.bool_)
@@ -180,17 +184,17 @@ def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False)
             delay[i] = heat.moisture_delay_s(mat.moisture_percent, mat.density, d, mat.conductivity_at_20C)
         else:
             bare[i] = True
-            ksh = m.shadow_factor if m.shadow_factor is not None else 1.0
+            ksh = m.shadow_factor_nominal if nominal_fire else m.shadow_factor_natural
             amv[i] = ksh * m.section_factor_per_m
     return bare, amv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay
 
 
 def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
-                thickness_scale=1.0):
+                thickness_scale=1.0, nominal_fire=False):
     """Batch kernel over ``members`` on one fire; returns the kernel's tuple."""
     code = case.code
     eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
-    arrays = thermal_arrays(case, members, thickness_scale)
+    arrays = thermal_arrays(case, members, thickness_scale, nominal_fire)
     q = np.zeros(0, dtype=np.int64) if query_idx is None else np.asarray(query_idx, dtype=np.int64)
     return heat.batch(time_s, gas_C, arrays[0], arrays[1], float(alpha_c), float(eps_res),
                       float(code["steel_density_kg_m3"]), *arrays[2:], np.asarray(thresholds, dtype=float),
@@ -215,10 +219,15 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
                     time_of_peak_gas_min=float(t[i_peak] / 60.0), **fire.fields)
 
     members = case.members
+    for i, m in enumerate(members):
+        if m.protected and m.thickness_mm is None:
+            raise InputError(f"member[{i + 1}] ({m.name}).thickness_mm", None,
+                             "is missing; the check needs it (steelfire size computes it)")
     crit = [_critical(m, code) for m in members]
     thresholds = np.array([c[0] for c in crit])
+    nominal_design = case.fire.curve in NOMINAL_CURVES
     peak, peak_t, _, _, last, hist = run_members(case, members, t, g, fire.alpha_c, thresholds,
-                                                 keep_history=histories)
+                                                 keep_history=histories, nominal_fire=nominal_design)
     # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
     # and for the equal-steel-temperature equivalence: when the same member reaches its design-fire
     # peak under the standard fire (the members run twice in one batch, one threshold each)
@@ -226,7 +235,7 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     gs = nominal.standard_fire(ts)
     n = len(members)
     _, _, cross2, _, _, _ = run_members(case, members + members, ts, gs, code["alpha_c_standard"],
-                                        np.concatenate([thresholds, peak]))
+                                        np.concatenate([thresholds, peak]), nominal_fire=True)
     cross, equal_t = cross2[:n], cross2[n:]
     equiv = equivalence_routes(case, fire, members, equal_t, warnings)
 
@@ -238,7 +247,9 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
             critical_temperature_source=crit[i][1], peak_steel_temperature_C=float(peak[i]),
             time_of_peak_steel_min=float(peak_t[i] / 60.0),
             standard_fire_time_to_critical_min=None if np.isnan(cross[i]) else float(cross[i] / 60.0),
-            required_minutes=m.required_minutes, shadow_factor=m.shadow_factor, utilisation=m.utilisation,
+            required_minutes=m.required_minutes,
+            shadow_factor=(m.shadow_factor_nominal if nominal_design else m.shadow_factor_natural)
+            if not m.protected else None, utilisation=m.utilisation,
             steel_temperature_C=hist[:, i].copy() if histories else None,
             equivalence=equiv["members"][i]))
 
@@ -343,6 +354,12 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings):
 
 def _member_warnings(case, members, fire, t, g, peak, last):
     out = []
+    from .protection import assessment_warnings
+
+    for i, m in enumerate(members):
+        if m.protected:
+            out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
+                                       float(peak[i]), fire.cools)
     unstable = [m.name for m in members if m.utilisation is not None and (
         m.kind in ("column", "brace", "other") or (m.kind == "beam" and m.laterally_restrained is not True))]
     if unstable:

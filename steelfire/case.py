@@ -15,6 +15,7 @@ from pathlib import Path
 from . import codevalues
 from .errors import InputError
 from .fire.compartment import Layer, Opening, Surface
+from .protection import ASSESSED_FIRES, GENERIC_FILE, Material
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -34,7 +35,7 @@ INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
 
 # The keys each table may hold. A key outside its list is refused before anything else is read, so
 # that a typo (``thicknes_mm``) is reported as itself, not as the required key it hides.
-TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member")
+TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file")
 FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient")
 ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope")
 COMPARTMENT_KEYS = ("floor_area_m2", "height_m", "boundary_area_m2", "thermal_inertia", "roof_opening_area_m2",
@@ -44,9 +45,12 @@ SURFACE_KEYS = ("area_m2", "layers")
 LAYER_KEYS = ("thickness_m", "density", "conductivity", "specific_heat")
 FIRE_LOAD_KEYS = ("characteristic_MJ_m2", "design_MJ_m2", "combustion_factor", "area_factor", "occupancy_factor",
                   "measures_factor", "growth")
-MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent")
+MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent", "description", "thicknesses_mm",
+                 "min_thickness_mm", "max_thickness_mm", "thickness_step_mm", "assessed_thickness_mm",
+                 "assessed_section_factor_per_m", "assessed_max_steel_temperature_C", "assessed_fire")
 MEMBER_KEYS = ("name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation",
-               "critical_temperature_C", "protection", "thickness_mm", "required_minutes", "shadow_factor")
+               "critical_temperature_C", "protection", "thickness_mm", "required_minutes", "shadow_factor",
+               "section", "exposure", "encasement")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -91,28 +95,6 @@ class AnalysisSettings:
 
 
 @dataclass(frozen=True)
-class Material:
-    """A protection material: density [kg/m3], conductivity [W/(m K)] or a table of
-    (steel temperature [C], conductivity [W/(m K)]) pairs, specific heat [J/(kg K)], free water [%]."""
-
-    name: str
-    density: float
-    conductivity: float | tuple
-    specific_heat: float
-    moisture_percent: float = 0.0
-
-    @property
-    def conductivity_table(self) -> tuple:
-        if isinstance(self.conductivity, tuple):
-            return self.conductivity
-        return ((20.0, float(self.conductivity)),)
-
-    @property
-    def conductivity_at_20C(self) -> float:
-        return self.conductivity_table[0][1]
-
-
-@dataclass(frozen=True)
 class Member:
     name: str
     kind: str
@@ -124,6 +106,11 @@ class Member:
     required_minutes: float | None = None
     shadow_factor: float | None = None
     laterally_restrained: bool | None = None
+    section: str | None = None
+    exposure: str | None = None
+    encasement: str | None = None
+    shadow_factor_nominal: float = 1.0   # k_sh used under nominal fires (eq (4.26a) for I-sections)
+    shadow_factor_natural: float = 1.0   # k_sh used under natural fires (eq (4.26b))
 
     @property
     def protected(self) -> bool:
@@ -275,25 +262,32 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
                              "is missing; give thermal_inertia or [[compartment.surface]] tables")
     materials = _read_materials(top.raw("materials", {}))
     members_raw = top.raw("member", [])
-    if not isinstance(members_raw, list) or not members_raw:
-        raise InputError("member", members_raw if members_raw else None,
-                         "needs at least one [[member]] table")
-    if len(members_raw) > MAX_MEMBERS:
-        raise InputError("member", len(members_raw), f"at most {MAX_MEMBERS} members per case")
-    members = tuple(_read_member(m, i + 1, materials, code) for i, m in enumerate(members_raw))
+    if not isinstance(members_raw, list):
+        raise InputError("member", members_raw, "must be an array of [[member]] tables")
+    rows = [(f"member[{i + 1}]", m) for i, m in enumerate(members_raw)]
+    if top.has("members_file"):
+        from .schedule import read_schedule
+
+        sched = top.string("members_file")
+        rows += read_schedule(Path(base_dir) / sched)
+    if not rows:
+        raise InputError("member", None, "needs at least one [[member]] table or a members_file")
+    if len(rows) > MAX_MEMBERS:
+        raise InputError("member", len(rows), f"at most {MAX_MEMBERS} members per case")
+    members = tuple(_read_member(m, where, materials, code) for where, m in rows)
     names = {}
-    for i, m in enumerate(members):
+    for (where, _), m in zip(rows, members):
         if m.name in names:
-            raise InputError(f"member[{i + 1}].name", m.name, f"must be unique (also member[{names[m.name]}])")
-        names[m.name] = i + 1
+            raise InputError(f"{_member_where(where, m.name)}.name", m.name, f"must be unique (also {names[m.name]})")
+        names[m.name] = where
     top.done()
 
     limit, clause = time_step_limit(members, code)
     check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
     check_protection_step(members, materials, code, analysis.time_step_s)
-    for i, m in enumerate(members):
+    for (where, _), m in zip(rows, members):
         if m.required_minutes is not None and m.required_minutes > analysis.standard_horizon_min:
-            raise InputError(f"member[{i + 1}] ({m.name}).required_minutes", m.required_minutes,
+            raise InputError(f"{_member_where(where, m.name)}.required_minutes", m.required_minutes,
                              f"must be <= analysis.standard_horizon_min = {analysis.standard_horizon_min:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
@@ -356,7 +350,7 @@ def check_protection_step(members, materials, code, time_step_s, field="analysis
     """
     ca_rho = STEEL_SPECIFIC_HEAT_MIN * code["steel_density_kg_m3"]
     for i, m in enumerate(members):
-        if not m.protected:
+        if not m.protected or m.thickness_mm is None:
             continue
         mat = materials[m.protection]
         lam = max(v for _, v in mat.conductivity_table)
@@ -481,20 +475,70 @@ def _read_fire_load(data) -> FireLoad:
 
 
 def _read_materials(data) -> dict:
+    """The case's [materials] tables, and the bundled generic ones under their own names."""
     if not isinstance(data, dict):
         raise InputError("materials", data, "must be a table of named material tables")
-    out = {}
+    out = dict(generic_materials())
     for name, md in data.items():
-        where = f"materials.{name}"
-        t = _Table(md, where, keys=MATERIAL_KEYS)
-        rho = t.number("density", "kg/m3", lo=1.0, hi=5000.0)
-        cp = t.number("specific_heat", "J/(kg K)", lo=100.0, hi=10000.0)
-        moist = t.number("moisture_percent", "% of dry weight", required=False, default=0.0, lo=0.0, hi=50.0)
-        lam_raw = t.raw("conductivity")
-        t.done()
-        out[name] = Material(name=name, density=rho, conductivity=_read_conductivity(lam_raw, where),
-                             specific_heat=cp, moisture_percent=moist)
+        out[name] = read_material_table(name, md, where=f"materials.{name}")
     return out
+
+
+def _pair(t, key, unit, lo, hi):
+    v = t.raw(key)
+    if v is None:
+        return None
+    if (not isinstance(v, list) or len(v) != 2
+            or any(isinstance(x, bool) or not isinstance(x, (int, float)) for x in v)
+            or not (lo <= v[0] <= v[1] <= hi)):
+        raise InputError(t._f(key), v, f"must be [least, largest] with {lo:g} <= least <= largest <= {hi:g} [{unit}]")
+    return (float(v[0]), float(v[1]))
+
+
+def read_material_table(name, md, where) -> Material:
+    """One protection material table (see steelfire.protection.Material for the keys)."""
+    t = _Table(md, where, keys=MATERIAL_KEYS)
+    rho = t.number("density", "kg/m3", lo=1.0, hi=5000.0)
+    cp = t.number("specific_heat", "J/(kg K)", lo=100.0, hi=10000.0)
+    moist = t.number("moisture_percent", "% of dry weight", required=False, default=0.0, lo=0.0, hi=50.0)
+    lam = _read_conductivity(t.raw("conductivity"), where)
+    desc = t.string("description", required=False, default="")
+    supplied = t.raw("thicknesses_mm")
+    if supplied is not None:
+        if (not isinstance(supplied, list) or not supplied
+                or any(isinstance(x, bool) or not isinstance(x, (int, float)) or not (0 < x <= 300) for x in supplied)):
+            raise InputError(f"{where}.thicknesses_mm", supplied, "must be a list of thicknesses > 0 and <= 300 [mm]")
+        supplied = tuple(sorted(float(x) for x in supplied))
+    d_lo = t.number("min_thickness_mm", "mm", required=False, lo=0.0, lo_open=True, hi=300.0)
+    d_hi = t.number("max_thickness_mm", "mm", required=False, lo=0.0, lo_open=True, hi=300.0)
+    step = t.number("thickness_step_mm", "mm", required=False, lo=0.01, hi=100.0)
+    if supplied is not None and (d_lo is not None or d_hi is not None or step is not None):
+        raise InputError(f"{where}.thicknesses_mm", list(supplied),
+                         "give thicknesses_mm or min/max_thickness_mm and thickness_step_mm, not both")
+    if d_lo is not None and d_hi is not None and d_hi < d_lo:
+        raise InputError(f"{where}.max_thickness_mm", d_hi, f"must be >= min_thickness_mm = {d_lo:g} mm")
+    a_d = _pair(t, "assessed_thickness_mm", "mm", 0.0, 300.0)
+    a_s = _pair(t, "assessed_section_factor_per_m", "1/m", 0.0, 1000.0)
+    a_t = t.number("assessed_max_steel_temperature_C", "C", required=False, lo=20.0, hi=1200.0)
+    a_f = t.string("assessed_fire", required=False, default="any", choices=ASSESSED_FIRES)
+    t.done()
+    return Material(name=name, density=rho, conductivity=lam, specific_heat=cp, moisture_percent=moist,
+                    thicknesses_mm=supplied, min_thickness_mm=d_lo, max_thickness_mm=d_hi, thickness_step_mm=step,
+                    assessed_thickness_mm=a_d, assessed_section_factor_per_m=a_s,
+                    assessed_max_steel_temperature_C=a_t, assessed_fire=a_f, description=desc)
+
+
+_GENERIC = None
+
+
+def generic_materials() -> dict:
+    """The bundled generic, illustrative materials (steelfire/data/materials_generic.toml), by name."""
+    global _GENERIC
+    if _GENERIC is None:
+        with GENERIC_FILE.open("rb") as fh:
+            data = tomllib.load(fh)
+        _GENERIC = {n: read_material_table(n, d, where=f"{GENERIC_FILE.name}: {n}") for n, d in data.items()}
+    return _GENERIC
 
 
 def _read_conductivity(v, where):
@@ -528,9 +572,13 @@ def _read_conductivity(v, where):
     return tuple(pairs)
 
 
-def _read_member(data, index, materials, code) -> Member:
+def _member_where(where, name):
+    return where + (f" ({name})" if isinstance(name, str) and name else "")
+
+
+def _read_member(data, where0, materials, code) -> Member:
     name_guess = data.get("name") if isinstance(data, dict) else None
-    where = f"member[{index}]" + (f" ({name_guess})" if isinstance(name_guess, str) else "")
+    where = _member_where(where0, name_guess)
     t = _Table(data, where, keys=MEMBER_KEYS)
     name = t.string("name")
     if not name.strip():
@@ -551,20 +599,51 @@ def _read_member(data, index, materials, code) -> Member:
         if protection not in materials:
             known = ", ".join(sorted(materials)) or "none defined"
             raise InputError(f"{where}.protection", protection, f"must name a [materials] table ({known})")
-        if thickness is None:
-            raise InputError(f"{where}.thickness_mm", None, "is missing; a protected member needs its thickness [mm]")
     elif thickness is not None:
         raise InputError(f"{where}.thickness_mm", thickness, "needs protection = a [materials] name")
     sf_lo = code["section_factor_min_bare_per_m"] if protection is None else 1.0
     clause = " (EN 1993-1-2 4.2.5.1(1) for bare steel)" if protection is None else ""
-    am_v = t.number("section_factor_per_m", "1/m", lo=0.0, lo_open=True, hi=1000.0)
-    if am_v < sf_lo:
-        raise InputError(f"{where}.section_factor_per_m", am_v, f"must be >= {sf_lo:g} 1/m{clause}")
+    section = t.string("section", required=False)
+    exposure = t.string("exposure", required=False)
+    encasement = t.string("encasement", required=False)
     ksh = t.number("shadow_factor", "-", required=False, lo=0.0, lo_open=True, hi=1.0)
     if ksh is not None and protection is not None:
         raise InputError(f"{where}.shadow_factor", ksh, "applies to bare steel only (EN 1993-1-2 4.2.5.1)")
+    k_nom = k_nat = ksh if ksh is not None else 1.0
+    if section is not None:
+        from . import sections as sec
+
+        if t.has("section_factor_per_m"):
+            raise InputError(f"{where}.section_factor_per_m", t.raw("section_factor_per_m"),
+                             "give section_factor_per_m or section, not both")
+        exposure_ = exposure or "4-sided"
+        encasement_ = encasement or "profile"
+        if protection is None and encasement_ != "profile":
+            raise InputError(f"{where}.encasement", encasement_, "a bare member is heated on its profile (\"profile\")")
+        geom = _field(where, "section", lambda: sec.catalogue_section(section))
+        am_v = _field(where, "exposure", lambda: sec.section_factor_per_m(geom, exposure_, encasement_))
+        if protection is None and ksh is None:
+            k_nom = sec.shadow_factor(geom, exposure_, True)
+            k_nat = sec.shadow_factor(geom, exposure_, False)
+        t.seen.add("section_factor_per_m")
+    else:
+        for key, v in (("exposure", exposure), ("encasement", encasement)):
+            if v is not None:
+                raise InputError(f"{where}.{key}", v, "needs section = a catalogue profile (e.g. \"IPE 300\")")
+        am_v = t.number("section_factor_per_m", "1/m", lo=0.0, lo_open=True, hi=1000.0)
+    if am_v < sf_lo:
+        raise InputError(f"{where}.section_factor_per_m", round(am_v, 3), f"must be >= {sf_lo:g} 1/m{clause}")
     req = t.number("required_minutes", "min", required=False, lo=0.0, lo_open=True, hi=MAX_DURATION_MIN)
     t.done()
     return Member(name=name, kind=kind, section_factor_per_m=am_v, utilisation=mu, critical_temperature_C=tcr,
                   protection=protection, thickness_mm=thickness, required_minutes=req, shadow_factor=ksh,
-                  laterally_restrained=restrained)
+                  laterally_restrained=restrained, section=section, exposure=exposure, encasement=encasement,
+                  shadow_factor_nominal=k_nom, shadow_factor_natural=k_nat)
+
+
+def _field(where, key, fn):
+    """Run ``fn``; re-raise its InputError under the member's field name."""
+    try:
+        return fn()
+    except InputError as exc:
+        raise InputError(f"{where}.{key}", exc.value, exc.allowed) from None

@@ -27,13 +27,17 @@ def _parser():
     p.add_argument("--version", action="version", version=f"steelfire {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
     c = sub.add_parser("check", help="check every member of a case against its critical temperature")
-    c.add_argument("case", help="case file (TOML)")
-    c.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
-    c.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _run_check
-                   help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
-    c.add_argument("--out", default=None, metavar="DIR",
-                   help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
-                        "self-contained report.html into DIR (created if missing)")
+    z = sub.add_parser("size", help="least protection thickness per member (standard period and burnout)")
+    for q in (c, z):
+        q.add_argument("case", help="case file (TOML)")
+        q.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
+        q.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _load
+                       help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
+        q.add_argument("--out", default=None, metavar="DIR",
+                       help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
+                            "self-contained report.html into DIR (created if missing)")
+    z.add_argument("--csv", default=None, metavar="OUT",
+                   help="write the protection schedule (one row per member, chosen thickness) to the CSV file OUT")
     return p
 
 
@@ -48,10 +52,10 @@ def _table(head, rows):
     return out
 
 
-def render_table(result) -> str:
+def render_table(result, sizing=False) -> str:
     """The terminal summary: the design fire, one row per member, warnings, cautions."""
     f = result.fire
-    lines = [f"steelfire check: {result.title}", ""]
+    lines = [f"steelfire {'size' if sizing else 'check'}: {result.title}", ""]
     fire_bits = [f"design fire: {f.curve}", f"peak gas {f.peak_gas_temperature_C:.1f} C at {f.time_of_peak_gas_min:.1f} min",
                  f"duration {f.duration_min:g} min"]
     if f.regime:
@@ -70,7 +74,7 @@ def render_table(result) -> str:
     rows = []
     for m in result.members:
         rows.append([
-            m.name, m.kind, f"{m.section_factor_per_m:g}", m.protection or "bare", _fmt(m.thickness_mm, "g"),
+            m.name, m.kind, f"{m.section_factor_per_m:.1f}", m.protection or "bare", _fmt(m.thickness_mm, "g"),
             f"{m.critical_temperature_C:.1f}", f"{m.peak_steel_temperature_C:.1f}", f"{m.time_of_peak_steel_min:.1f}",
             f"{m.margin_C:+.1f}", "PASS" if m.passes else "FAIL",
             _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
@@ -90,6 +94,19 @@ def render_table(result) -> str:
                      _fmt(e.get("annex_f_small_compartment_min"), ".1f"),
                      ", ".join(e.get("unconservative", [])) or "-"])
     lines += _table(head, rows)
+    if sizing:
+        lines += ["", "Protection sizing (least thickness; chosen = least supplied thickness passing both criteria):"]
+        head = ["member", "protection", "std period [mm]", "burnout [mm]", "governing", "chosen [mm]", "achievable"]
+        rows = []
+        notes = []
+        for m in result.members:
+            s = m.sizing
+            rows.append([m.name, m.protection or "bare", _fmt(s["standard_period_mm"], ".1f"),
+                         _fmt(s["burnout_mm"], ".1f"), s["governing"] or "-", _fmt(s["chosen_mm"], "g"),
+                         "yes" if s["achievable"] else "NO"])
+            if s["note"]:
+                notes.append(f"  {m.name}: {s['note']}")
+        lines += _table(head, rows) + notes
     n_ok = sum(m.ok for m in result.members)
     lines += ["", f"{n_ok} of {len(result.members)} members pass the design fire and meet their required period."]
     if result.out_of_scope:
@@ -102,8 +119,8 @@ def render_table(result) -> str:
     return "\n".join(lines)
 
 
-def _run_check(args) -> int:
-    from . import analyse, load_case
+def _load(args):
+    from . import load_case
     from .case import with_time_step
     from .errors import InputError
 
@@ -111,6 +128,8 @@ def _run_check(args) -> int:
         from .output import check_out_dir
 
         check_out_dir(args.out)  # a bad --out fails (exit 2) before the analysis runs
+    if getattr(args, "csv", None) is not None:
+        check_csv_target(args.csv)
     case = load_case(args.case)
     if args.time_step_s is not None:
         try:
@@ -118,13 +137,90 @@ def _run_check(args) -> int:
         except ValueError:
             raise InputError("--time-step-s", args.time_step_s, "must be a number [s]") from None
         case = with_time_step(case, step)
-    result = analyse(case, histories=args.out is not None)
-    _write(result, args, case, "check")
+    return case
+
+
+def _print(result, args, sizing=False):
     if args.json:
         sys.stdout.write(json.dumps(result.to_dict(), indent=2, allow_nan=False) + "\n")
     else:
-        sys.stdout.write(render_table(result) + "\n")
+        sys.stdout.write(render_table(result, sizing=sizing) + "\n")
+
+
+def _run_check(args) -> int:
+    from . import analyse
+
+    case = _load(args)
+    result = analyse(case, histories=args.out is not None)
+    _write(result, args, case, "check")
+    _print(result, args)
     return EXIT_OK if result.all_ok else EXIT_FAIL
+
+
+def _run_size(args) -> int:
+    from .analysis import size
+
+    case = _load(args)
+    result = size(case, histories=args.out is not None)
+    _write(result, args, case, "size")
+    if args.csv is not None:
+        write_schedule_csv(result, case, args.csv)
+    _print(result, args, sizing=True)
+    return EXIT_OK if all(m.sizing["achievable"] for m in result.members) else EXIT_FAIL
+
+
+SCHEDULE_COLUMNS = ("member", "kind", "section", "section_factor_per_m", "protection", "material", "chosen_mm",
+                    "governing", "standard_period_mm", "burnout_mm", "required_minutes", "critical_temperature_C",
+                    "peak_steel_temperature_C", "achievable", "note")
+
+
+def check_csv_target(path):
+    """--csv must name a file in an existing, writable folder (not a folder)."""
+    import os
+    from pathlib import Path
+
+    from .errors import InputError
+
+    p = Path(path)
+    if p.is_dir():
+        raise InputError("--csv", str(path), "must name a file, not a folder")
+    parent = p.parent if str(p.parent) else Path(".")
+    if not parent.is_dir() or not os.access(parent, os.W_OK):
+        raise InputError("--csv", str(path), "must be in an existing, writable folder")
+
+
+def write_schedule_csv(result, case, path):
+    """The protection schedule a contractor can price: one row per member; written to a temporary
+    file in the same folder and renamed, so no half-written file is left."""
+    import csv
+    import io
+    import os
+    import tempfile
+    from pathlib import Path
+
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(SCHEDULE_COLUMNS)
+    by_name = {m.name: m for m in case.members}
+    for r in result.members:
+        s = r.to_dict()["sizing"]
+        m = by_name[r.name]
+        mat = case.materials.get(r.protection) if r.protection else None
+        w.writerow([r.name, r.kind, m.section or "", f"{r.section_factor_per_m:g}", r.protection or "bare",
+                    (mat.description if mat else ""), _fmt(s["chosen_mm"], "g", ""), s["governing"] or "",
+                    _fmt(s["standard_period_mm"], "g", ""), _fmt(s["burnout_mm"], "g", ""),
+                    _fmt(r.required_minutes, "g", ""), f"{round(r.critical_temperature_C, 2):g}",
+                    f"{round(r.peak_steel_temperature_C, 2):g}", "yes" if s["achievable"] else "no", s["note"]])
+    p = Path(path)
+    fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", suffix=".part", dir=str(p.parent if str(p.parent) else "."))
+    try:
+        with os.fdopen(fd, "w", newline="", encoding="utf-8") as fh:
+            fh.write(buf.getvalue())
+        os.replace(tmp, p)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
 
 
 def _write(result, args, case, command):
@@ -146,6 +242,8 @@ def main(argv=None) -> int:
     try:
         if args.command == "check":
             return _run_check(args)
+        if args.command == "size":
+            return _run_size(args)
     except InputError as exc:
         sys.stderr.write(f"steelfire: error: {exc}\n")
         return EXIT_INPUT

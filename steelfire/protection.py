@@ -101,18 +101,3 @@ def assessment_warnings(material: Material, member: str, thickness_mm: float | N
         out.append(f"{where} is assessed for the standard fire only; its behaviour in a fire with a cooling phase "
                    "(the design fire here) is not covered by that assessment.")
     return out
-
-
-def generic_materials() -> dict:
-    """The bundled generic, illustrative materials (steelfire/data/materials_generic.toml), by name."""
-    from .case import read_material_table  # the one reader of material tables, with its checks
-
-    import sys
-
-    if sys.version_info >= (3, 11):
-        import tomllib
-    else:  # pragma: no cover
-        import tomli as tomllib
-    with GENERIC_FILE.open("rb") as fh:
-        data = tomllib.load(fh)
-    return {name: read_material_table(name, d, where=f"{GENERIC_FILE.name}: {name}") for name, d in data.items()}
