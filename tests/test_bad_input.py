@@ -844,7 +844,7 @@ def test_case_file_is_a_directory(tmp_path):
 
 def test_duplicate_member_names(tmp_path):
     data = edited("nominal", (M1 + ("name",), "B1"))
-    assert_refused(write_case(tmp_path, data), "member[2].name", "'B1'", "unique (also member[1])")
+    assert_refused(write_case(tmp_path, data), "member[2] (B1).name", "'B1'", "unique (also member[1])")
 
 
 def test_blank_member_name(tmp_path):

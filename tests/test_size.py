@@ -210,5 +210,10 @@ def test_schedule_import_errors(tmp_path, csv_text, needle):
 
 
 def test_check_needs_thickness_size_does_not(tmp_path):
-    r = run("check", "cases/office_floor.toml")
+    c = _schedule_case(tmp_path, "name,section,encasement,critical_temperature_C,protection,required_minutes\n"
+                                 "A,IPE 300,box,560,generic-board-gypsum,60\n")
+    r = run("check", str(c))
     assert r.returncode == 2 and "thickness_mm = None" in r.stderr and "steelfire size computes it" in r.stderr
+    r = run("size", str(c), "--json")
+    assert r.returncode == 0, r.stderr
+    assert json.loads(r.stdout)["members"][0]["sizing"]["chosen_mm"] in (12.5, 15.0, 20.0, 25.0, 30.0)
