@@ -232,6 +232,42 @@ def sizing_figures(repeats):
     return med, med2
 
 
+def overhead_figures():
+    """A 20,000-member check (members as in the sizing benchmark): time in the kernels against
+    the whole analysis, and the JSON document."""
+    import json
+
+    from steelfire import analysis
+    from steelfire import heat as heat_mod
+
+    t0 = time.perf_counter()
+    case = sizing_case(n=20000, seed=5)
+    t_load = time.perf_counter() - t0
+    spent = [0.0]
+    real = heat_mod.batch
+
+    def timed(*a, **k):
+        t = time.perf_counter()
+        out = real(*a, **k)
+        spent[0] += time.perf_counter() - t
+        return out
+
+    analysis.analyse(case, histories=False)  # warm
+    heat_mod.batch = timed
+    try:
+        spent[0] = 0.0
+        t0 = time.perf_counter()
+        res = analysis.analyse(case, histories=False)
+        t_an = time.perf_counter() - t0
+    finally:
+        heat_mod.batch = real
+    t0 = time.perf_counter()
+    json.dumps(res.to_dict())
+    t_js = time.perf_counter() - t0
+    print(f"check of 20,000 members: validation {t_load:.2f} s, analysis {t_an:.2f} s of which kernels "
+          f"{spent[0]:.2f} s ({spent[0] / t_an:.0%}), JSON {t_js:.2f} s")
+
+
 def check_wall_times(repeats):
     cases = sorted((ROOT / "cases").glob("*.toml"), key=lambda p: p.stat().st_size)
     largest = max(cases, key=lambda p: len(p.read_text()))
@@ -265,6 +301,7 @@ def main(argv=None):
           f"threads {numba.config.NUMBA_NUM_THREADS}")
     kernel_figures(repeats)
     sizing_figures(repeats)
+    overhead_figures()
     check_wall_times(repeats)
 
 

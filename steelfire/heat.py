@@ -154,6 +154,34 @@ def specific_heat_select(x):
     return cubic if x < 600.0 else (frac if x < 900.0 else 650.0)
 
 
+@nb.njit(cache=True, inline="always")
+def _record(th, lo, w, step, q, query_idx, at_q, hist, keep_history):
+    """After time step ``step``: the chunk's temperatures into the history and the queried columns."""
+    if keep_history:
+        for j in range(w):
+            hist[step, lo + j] = th[j]
+    while q < query_idx.shape[0] and query_idx[q] == step:
+        for j in range(w):
+            at_q[lo + j, q] = th[j]
+        q += 1
+    return q
+
+
+@nb.njit(cache=True, inline="always")
+def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross):
+    """Per member of the chunk: peak and its time, last increment, threshold crossing (linear in the step)."""
+    for j in range(w):
+        m = lo + j
+        peak[m] = pk[j]
+        peak_t[m] = time_s[pki[j]]
+        last[m] = dl[j]
+        if ci[j] == -2:
+            cross[m] = time_s[0]
+        elif ci[j] >= 0:
+            k = ci[j]
+            cross[m] = time_s[k] + (time_s[k + 1] - time_s[k]) * (thr[j] - cx[j]) / (cn[j] - cx[j])
+
+
 @nb.njit(cache=True, parallel=True, error_model="numpy")
 def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s, rho_a,
                       threshold_C, query_idx, keep_history):
@@ -207,13 +235,7 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
                     sk[k, j] = 0.0
             if 20.0 >= thr[j]:
                 ci[j] = -2
-            if keep_history:
-                hist[0, m] = 20.0
-        q = 0
-        while q < n_q and query_idx[q] == 0:
-            for j in range(w):
-                at_q[lo + j, q] = 20.0
-            q += 1
+        q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
         for i in range(n_t - 1):
             t0 = time_s[i]
             dt = time_s[i + 1] - t0
@@ -253,23 +275,8 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
                 pki[j] = i + 1 if up else pki[j]
                 dl[j] = new - x
                 th[j] = new
-            if keep_history:
-                for j in range(w):
-                    hist[i + 1, lo + j] = th[j]
-            while q < n_q and query_idx[q] == i + 1:
-                for j in range(w):
-                    at_q[lo + j, q] = th[j]
-                q += 1
-        for j in range(w):
-            m = lo + j
-            peak[m] = pk[j]
-            peak_t[m] = time_s[pki[j]]
-            last[m] = dl[j]
-            if ci[j] == -2:
-                cross[m] = time_s[0]
-            elif ci[j] >= 0:
-                k = ci[j]
-                cross[m] = time_s[k] + (time_s[k + 1] - time_s[k]) * (thr[j] - cx[j]) / (cn[j] - cx[j])
+            q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
+        _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
     return peak, peak_t, cross, at_q, last, hist
 
 
@@ -303,13 +310,7 @@ def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, q
             thr[j] = threshold_C[lo + j]
             if 20.0 >= thr[j]:
                 ci[j] = -2
-            if keep_history:
-                hist[0, lo + j] = 20.0
-        q = 0
-        while q < n_q and query_idx[q] == 0:
-            for j in range(w):
-                at_q[lo + j, q] = 20.0
-            q += 1
+        q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
         for i in range(n_t - 1):
             dt = time_s[i + 1] - time_s[i]
             g = gas_C[i]
@@ -330,23 +331,8 @@ def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, q
                 pki[j] = i + 1 if up else pki[j]
                 dl[j] = new - x
                 th[j] = new
-            if keep_history:
-                for j in range(w):
-                    hist[i + 1, lo + j] = th[j]
-            while q < n_q and query_idx[q] == i + 1:
-                for j in range(w):
-                    at_q[lo + j, q] = th[j]
-                q += 1
-        for j in range(w):
-            m = lo + j
-            peak[m] = pk[j]
-            peak_t[m] = time_s[pki[j]]
-            last[m] = dl[j]
-            if ci[j] == -2:
-                cross[m] = time_s[0]
-            elif ci[j] >= 0:
-                k = ci[j]
-                cross[m] = time_s[k] + (time_s[k + 1] - time_s[k]) * (thr[j] - cx[j]) / (cn[j] - cx[j])
+            q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
+        _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
     return peak, peak_t, cross, at_q, last, hist
 
 

@@ -6,10 +6,10 @@ Errors name the file, the row and the column. The rows are then validated like [
 
 from __future__ import annotations
 
-import csv
 import math
 from pathlib import Path
 
+from .csvrows import read_rows
 from .errors import InputError
 
 #: Column -> type of the [[member]] keys a schedule may carry.
@@ -24,15 +24,7 @@ MAX_ROWS = 200_000
 def read_schedule(path, field: str = "members_file"):
     """Rows of a schedule CSV as (where, dict) pairs, ``where`` naming the file and row for errors."""
     p = Path(path)
-    if not p.is_file():
-        raise InputError(field, str(path), "must name an existing CSV file (relative to the case file)")
-    try:
-        with p.open(newline="", encoding="utf-8-sig") as fh:
-            rows = list(csv.reader(fh))
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(field, str(path), f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})") from None
-    numbered = [(i + 1, r) for i, r in enumerate(rows)
-                if r and any(c.strip() for c in r) and not r[0].lstrip().startswith("#")]
+    numbered = read_rows(p, field, "member rows under a header of member keys")
     if not numbered:
         raise InputError(field, p.name, "is empty; needs a header row with at least name and a section factor")
     header_row, header = numbered[0]

@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-import csv
 import math
 from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
 
+from ..csvrows import read_rows
 from ..errors import InputError
 
 COLUMNS = ("time_min", "temperature_C")
@@ -33,23 +33,14 @@ def read_curve_csv(path, field: str = "fire.file") -> TabulatedFire:
     Temperatures must lie between 0 and 1500 C. Errors name the file, the row and the column.
     """
     p = Path(path)
-    if not p.is_file():
-        raise InputError(field, str(path), "must name an existing CSV file (relative to the case file)")
-    try:
-        with p.open(newline="", encoding="utf-8-sig") as fh:
-            rows = list(csv.reader(fh))
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(field, str(path), f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})") from None
-    except csv.Error as exc:
-        raise InputError(field, str(path), f"must be a CSV file of two columns time_min,temperature_C ({exc})") from None
-    rows = [r for r in rows if r and not r[0].lstrip().startswith("#") and any(c.strip() for c in r)]
-    if not rows:
+    numbered = read_rows(p, field, "two columns time_min,temperature_C")
+    if not numbered:
         raise InputError(field, str(path), "is empty; needs a header time_min,temperature_C and rows")
-    header = [c.strip() for c in rows[0]]
+    header = [c.strip() for c in numbered[0][1]]
     if header[:2] != list(COLUMNS):
         raise InputError(f"{p.name} header", ",".join(header), "must be time_min,temperature_C")
     times, temps = [], []
-    for i, row in enumerate(rows[1:], start=2):
+    for i, row in numbered[1:]:
         if len(row) < 2:
             raise InputError(f"{p.name} row {i}", ",".join(row), "needs two columns time_min,temperature_C")
         vals = []
