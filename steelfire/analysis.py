@@ -159,42 +159,50 @@ NOMINAL_CURVES = ("standard", "external", "hydrocarbon")
 
 def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False):
     """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch`); ``nominal_fire``
-    selects the shadow factor of EN 1993-1-2 eq (4.26a) (nominal fires) or (4.26b)."""
+    selects the shadow factor of EN 1993-1-2 eq (4.26a) (nominal fires) or (4.26b).
+
+    Built per material, then spread over the members with numpy (schedules have many members and
+    few materials)."""
     n = len(members)
-    k = max([len(case.materials[m.protection].conductivity_table) for m in members if m.protected] + [1])
-    bare = np.zeros(n, dtype=np.bool_)
-    amv = np.empty(n)
-    d_p = np.ones(n)
-    rho_p = np.ones(n)
-    c_p = np.ones(n)
-    lam_T = np.zeros((n, k))
-    lam_v = np.ones((n, k))
-    lam_n = np.ones(n, dtype=np.int64)
-    delay = np.zeros(n)
-    for i, m in enumerate(members):
-        if m.protected:
-            mat = case.materials[m.protection]
-            d = m.thickness_mm * 1e-3 * thickness_scale
-            amv[i] = m.section_factor_per_m
-            d_p[i], rho_p[i], c_p[i] = d, mat.density, mat.specific_heat
-            tab = mat.conductivity_table
-            lam_n[i] = len(tab)
-            for j, (th, lam) in enumerate(tab):
-                lam_T[i, j], lam_v[i, j] = th, lam
-            delay[i] = heat.moisture_delay_s(mat.moisture_percent, mat.density, d, mat.conductivity_at_20C)
-        else:
-            bare[i] = True
-            ksh = m.shadow_factor_nominal if nominal_fire else m.shadow_factor_natural
-            amv[i] = ksh * m.section_factor_per_m
-    return bare, amv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay
+    names = sorted({m.protection for m in members if m.protected})
+    mats = [case.materials[nm] for nm in names]
+    k = max([len(mt.conductivity_table) for mt in mats] + [1])
+    n_mat = len(mats) + 1  # last row: a placeholder for bare members
+    m_rho, m_cp, m_moist, m_lam20 = (np.ones(n_mat) for _ in range(4))
+    m_moist[:] = 0.0
+    m_T, m_V, m_N = np.zeros((n_mat, k)), np.ones((n_mat, k)), np.ones(n_mat, dtype=np.int64)
+    for r, mt in enumerate(mats):
+        m_rho[r], m_cp[r], m_moist[r], m_lam20[r] = mt.density, mt.specific_heat, mt.moisture_percent, \
+            mt.conductivity_at_20C
+        tab = mt.conductivity_table
+        m_N[r] = len(tab)
+        for j, (th, lam) in enumerate(tab):
+            m_T[r, j], m_V[r, j] = th, lam
+    row = {nm: r for r, nm in enumerate(names)}
+    bare_row = n_mat - 1
+    idx = np.fromiter((row[m.protection] if m.protection is not None else bare_row for m in members),
+                      dtype=np.int64, count=n)
+    bare = idx == bare_row
+    sf = np.fromiter((m.section_factor_per_m for m in members), dtype=float, count=n)
+    ksh = np.fromiter(((m.shadow_factor_nominal if nominal_fire else m.shadow_factor_natural) for m in members),
+                      dtype=float, count=n)
+    d_mm = np.fromiter((m.thickness_mm if m.thickness_mm is not None else 1.0 for m in members), dtype=float, count=n)
+    d_p = np.where(bare, 1.0, d_mm * 1e-3 * thickness_scale)
+    amv = np.where(bare, ksh * sf, sf)
+    rho_p, c_p = m_rho[idx], m_cp[idx]
+    moist, lam20 = m_moist[idx], m_lam20[idx]
+    # moisture delay t_v = p rho_p d_p^2 / (5 lambda_p) [min] (steelfire.heat.moisture_delay_s)
+    delay = np.where(moist > 0.0, 60.0 * moist * rho_p * d_p ** 2 / (5.0 * lam20), 0.0)
+    return bare, amv, d_p, rho_p, c_p, m_T[idx], m_V[idx], m_N[idx], delay
 
 
 def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
-                thickness_scale=1.0, nominal_fire=False):
-    """Batch kernel over ``members`` on one fire; returns the kernel's tuple."""
+                thickness_scale=1.0, nominal_fire=False, arrays=None):
+    """Batch kernel over ``members`` on one fire (or over prepared ``arrays``); returns the kernel's tuple."""
     code = case.code
     eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
-    arrays = thermal_arrays(case, members, thickness_scale, nominal_fire)
+    if arrays is None:
+        arrays = thermal_arrays(case, members, thickness_scale, nominal_fire)
     q = np.zeros(0, dtype=np.int64) if query_idx is None else np.asarray(query_idx, dtype=np.int64)
     return heat.batch(time_s, gas_C, arrays[0], arrays[1], float(alpha_c), float(eps_res),
                       float(code["steel_density_kg_m3"]), *arrays[2:], np.asarray(thresholds, dtype=float),
@@ -234,8 +242,9 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
     gs = nominal.standard_fire(ts)
     n = len(members)
-    _, _, cross2, _, _, _ = run_members(case, members + members, ts, gs, code["alpha_c_standard"],
-                                        np.concatenate([thresholds, peak]), nominal_fire=True)
+    std_arrays = tuple(np.concatenate([a, a]) for a in thermal_arrays(case, members, nominal_fire=True))
+    _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],
+                                        np.concatenate([thresholds, peak]), arrays=std_arrays)
     cross, equal_t = cross2[:n], cross2[n:]
     equiv = equivalence_routes(case, fire, members, equal_t, warnings)
 

@@ -11,6 +11,8 @@ import json
 import sys
 
 EXIT_OK, EXIT_FAIL, EXIT_INPUT = 0, 1, 2
+#: Above this many members the JSON on stdout is printed without indentation.
+COMPACT_JSON_MEMBERS = 2000
 
 
 class _Parser(argparse.ArgumentParser):
@@ -142,7 +144,10 @@ def _load(args):
 
 def _print(result, args, sizing=False):
     if args.json:
-        sys.stdout.write(json.dumps(result.to_dict(), indent=2, allow_nan=False) + "\n")
+        # indented for a readable document; compact for large schedules (the indenting encoder is
+        # the pure-Python one, several times slower)
+        indent = 2 if len(result.members) <= COMPACT_JSON_MEMBERS else None
+        sys.stdout.write(json.dumps(result.to_dict(), indent=indent, allow_nan=False) + "\n")
     else:
         sys.stdout.write(render_table(result, sizing=sizing) + "\n")
 
