@@ -500,7 +500,8 @@ def size(case: Case, histories: bool = True) -> AnalysisResult:
         else:
             members.append(m)
     result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
-    for r, s in zip(result.members, sized):
+    for r, s, m in zip(result.members, sized, case.members):
+        s["given_mm"] = m.thickness_mm
         if s["achievable"] is None:  # bare member
             ok = r.ok
             s.update(achievable=ok, chosen_mm=0.0 if ok else None,

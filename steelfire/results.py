@@ -56,7 +56,8 @@ def _equivalence_dict(e):
 def _sizing_dict(s):
     return {"standard_period_mm": _r(s["standard_period_mm"]), "burnout_mm": _r(s["burnout_mm"]),
             "governing": s["governing"], "chosen_mm": _r(s["chosen_mm"]), "achievable": bool(s["achievable"]),
-            "note": s["note"], "supplied_range_mm": s["supplied_range_mm"], "iterations": s["iterations"]}
+            "note": s["note"], "supplied_range_mm": s["supplied_range_mm"], "iterations": s["iterations"],
+            "given_mm": _r(s.get("given_mm"))}
 
 
 @dataclass

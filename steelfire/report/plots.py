@@ -383,18 +383,19 @@ def thickness_figure(doc, idx, note):
     ch = [c for c in ch if _num(c[1])]
     if ch:
         ax.scatter([c[0] for c in ch], [c[1] for c in ch], marker="D", s=30, color=MARKER, zorder=5, label="chosen")
-    cur = [(x[k], doc["members"][i].get("thickness_mm")) for k, i in enumerate(idx)]
+    cur = [(x[k], doc["members"][i]["sizing"].get("given_mm")) for k, i in enumerate(idx)]
     cur = [c for c in cur if _num(c[1])]
     if cur:
         ax.scatter([c[0] for c in cur], [c[1] for c in cur], marker="_", s=260, linewidths=1.6, color=STANDARD,
-                   zorder=4, label="thickness in the case")
+                   zorder=4, label="thickness given in the case")
     for k, i in enumerate(idx):
         s = doc["members"][i]["sizing"]
         if s.get("achievable") is False:
             top = [v for v in (s.get("standard_period_mm"), s.get("burnout_mm"), s.get("chosen_mm"),
-                               doc["members"][i].get("thickness_mm")) if _num(v)]
+                               s.get("given_mm")) if _num(v)]
             ax.annotate("not achievable", xy=(x[k], max(top) if top else 0.0), xytext=(0, 5),
-                        textcoords="offset points", ha="center", va="bottom", fontsize=7.5, fontweight="bold")
+                        textcoords="offset points", ha="center", va="bottom", fontsize=7.5, fontweight="bold",
+                        rotation=90)
     ax.set_xticks(x)
     ax.set_xticklabels(names, rotation=30 if len(idx) > 4 else 0, ha="right" if len(idx) > 4 else "center")
     ax.set_xlim(-0.6, len(idx) - 0.4)
