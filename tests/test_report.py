@@ -580,9 +580,10 @@ def test_sizing_columns_table_and_figure(tmp_path):
     assert rows[1]["sizing_achievable"] == "false" and rows[1]["sizing_burnout_mm"] == ""
     assert rows[2]["sizing_governing"] == "" and rows[0]["sizing_supplied_range_mm"] == "5;80"
     assert rows[1]["sizing_iterations_burnout"] == "12" and rows[1]["sizing_note"] == 'not achievable <within> "80 mm"'
-    assert list(rows[0])[-9:] == ["sizing_standard_period_mm", "sizing_burnout_mm", "sizing_governing",
-                                  "sizing_chosen_mm", "sizing_achievable", "sizing_supplied_range_mm",
-                                  "sizing_iterations_standard_period", "sizing_iterations_burnout", "sizing_note"]
+    assert list(rows[0])[-10:] == ["sizing_standard_period_mm", "sizing_burnout_mm", "sizing_governing",
+                                   "sizing_chosen_mm", "sizing_achievable", "sizing_supplied_range_mm",
+                                   "sizing_iterations_standard_period", "sizing_iterations_burnout", "sizing_note",
+                                   "sizing_given_mm"]
     doc = json.loads((out / "results.json").read_text("utf-8"))
     assert doc["members"][0]["sizing"]["burnout_mm"] == 31.2 and doc["run"]["command"] == "size"
     page = (out / "report.html").read_text("utf-8")
