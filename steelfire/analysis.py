@@ -91,6 +91,10 @@ def design_fire(case: Case) -> _Fire:
                                           "thermal_inertia")})
     key_times = []
     cools = False
+    if case.compartment is not None and case.fire_load is not None and cv["area_factor"] is not None \
+            and case.compartment.floor_area_m2 > 10000.0:
+        warnings.append(f"Floor area {case.compartment.floor_area_m2:g} m2 is beyond the last row of EN 1991-1-2 "
+                        "Table E.1 (10 000 m2): delta_q1 is held at that row's value, which may be low.")
     if spec.curve == "parametric":
         c = case.compartment
         violations = parametric.scope_violations(
@@ -246,7 +250,7 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],
                                         np.concatenate([thresholds, peak]), arrays=std_arrays)
     cross, equal_t = cross2[:n], cross2[n:]
-    equiv = equivalence_routes(case, fire, members, equal_t, warnings)
+    equiv = equivalence_routes(case, fire, members, equal_t, warnings, cross)
 
     results = []
     for i, m in enumerate(members):
@@ -274,7 +278,7 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
 UNCONSERVATIVE_FRACTION = 0.10
 
 
-def equivalence_routes(case, fire, members, equal_time_s, warnings):
+def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_time_s=None):
     """Time equivalence by EN 1991-1-2 Annex F, the CIB W14 formula and equal steel temperature.
 
     Returns {"factors": {...} | None, "members": [per-member dict]}. Annex F and CIB W14 need the
@@ -325,9 +329,11 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings):
         warnings.append("Time equivalence by Annex F and CIB W14 needs [compartment] and [fire_load]; "
                         "only the equal-steel-temperature route is given.")
     if any(not m.protected for m in members) and cib is not None:
-        warnings.append("CIB W14: " + cib.not_applicable_reason if cib.not_applicable_reason else
-                        "CIB W14 is derived for protected members; null for bare members.")
+        warnings.append("CIB W14 is derived for protected (insulated) members: null for the bare members.")
     out = []
+    n = len(members)
+    cts = np.full(n, np.nan) if critical_time_s is None else np.asarray(critical_time_s, dtype=float)
+    cross_std_min = [None if np.isnan(v) else float(v) / 60.0 for v in cts]
     for i, m in enumerate(members):
         a = annex_f[m.protected].t_e_min if annex_f else None
         w = cib.t_e_min if (cib is not None and m.protected) else None
@@ -340,10 +346,16 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings):
             meets = {r: (v <= m.required_minutes + 1e-9) for r, v in routes.items() if v is not None}
             if d is not None:
                 meets["equal_temperature"] = d <= m.required_minutes + 1e-9
-            elif m.required_minutes < horizon:
+            elif m.required_minutes <= horizon:
                 meets["equal_temperature"] = False
         small = annex_f[m.protected].small_compartment if annex_f else None
+        # the verification the routes stand for (t_fi,d >= t_e,d): the member's own standard-fire time
+        # to critical against each route's equivalent time
+        t_fi = cross_std_min[i]
+        resists = {r: (t_fi is None or t_fi >= v - 1e-9) for r, v in
+                   (("annex_f", a), ("cib_w14", w), ("equal_temperature", d)) if v is not None}
         out.append({"annex_f_min": a, "cib_w14_min": w, "equal_temperature_min": d, "unconservative": uncons,
+                    "resists": resists,
                     "annex_f_small_compartment_min": small.t_e_min if small is not None else None,
                     "meets_required": meets,
                     "annex_f_k_c": annex_f[m.protected].k_c if annex_f else None,
@@ -369,6 +381,12 @@ def _member_warnings(case, members, fire, t, g, peak, last):
         if m.protected:
             out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
                                        float(peak[i]), fire.cools)
+    mixed = [m.name for m in members if not m.protected and m.shadow_factor is None
+             and m.shadow_factor_nominal != m.shadow_factor_natural]
+    if mixed and case.fire.curve not in NOMINAL_CURVES:
+        out.append(f"Shadow factor for {_names(mixed)}: eq (4.26b) in the design fire, eq (4.26a) (0.9 times) "
+                   "under the standard fire (EN 1993-1-2 4.2.5.1(2)); the standard-fire times, and the "
+                   "equal-temperature equivalence, carry that difference.")
     unstable = [m.name for m in members if m.utilisation is not None and (
         m.kind in ("column", "brace", "other") or (m.kind == "beam" and m.laterally_restrained is not True))]
     if unstable:
@@ -440,15 +458,20 @@ def size_members(case: Case):
         eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
         p = sizing.Problem(ts, crit, req, standard, design, eps_res, code["steel_density_kg_m3"])
         supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]
+        # trial thicknesses start where the explicit eq (4.27) is stable at this time step
+        lam_max = np.array([max(v for _, v in mat.conductivity_table) for mat in mats])
+        stable = heat.stable_min_thickness_m(lam_max, ts.c_p, ts.rho_p, ts.ap_v, case.analysis.time_step_s,
+                                             code["steel_density_kg_m3"])
+        supplied = [sp[sp >= st] if np.any(sp >= st) else sp[-1:] for sp, st in zip(supplied, stable)]
         d_min = np.array([s[0] for s in supplied])
         d_max = np.array([s[-1] for s in supplied])
         a = sizing.size_standard_period(p, d_min, d_max)
-        b = sizing.size_burnout(p, d_min, d_max)
+        b = sizing.size_burnout(p, [sizing.scan_grid(sp) for sp in supplied])
         a_mm = np.where(np.isnan(a.thickness_m), np.nan, a.thickness_m * 1e3)
         b_mm = b.thickness_m * 1e3
-        need = np.fmax(np.nan_to_num(a_mm, nan=-1.0), np.nan_to_num(b_mm, nan=-1.0))
+        failing = np.fmax(a.failing_m, b.failing_m)  # NaN only where both pass at the least thickness
         possible = a.achievable & b.achievable
-        chosen, ok = sizing.round_up_and_verify(p, need * 1e-3, possible, supplied)
+        chosen, ok = sizing.round_up_and_verify(p, failing, possible, supplied)
         for j, i in enumerate(prot):
             has_std = not np.isnan(req[j])
             std_v = float(a_mm[j]) if has_std and a.achievable[j] else None
@@ -464,10 +487,13 @@ def size_members(case: Case):
                     why.append(f"the standard period ({sub[j].required_minutes:g} min)")
                 if not b.achievable[j]:
                     why.append("burnout of the design fire")
-                if not why:
-                    why.append("both criteria at any supplied thickness")
-                note = (f"not achievable within the material's largest thickness "
-                        f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
+                if why:
+                    note = (f"not achievable within the material's largest thickness "
+                            f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
+                else:
+                    note = ("not achievable: each criterion alone is met (standard period from "
+                            f"{a_mm[j]:.1f} mm, burnout from {b_mm[j]:.1f} mm) but no supplied thickness "
+                            "meets both (the burnout peak rises again with thickness)")
             out[i] = {"standard_period_mm": std_v, "burnout_mm": burn_v, "governing": governing,
                       "chosen_mm": float(chosen[j] * 1e3) if ok[j] else None, "achievable": bool(ok[j]),
                       "note": note, "supplied_range_mm": [float(supplied[j][0] * 1e3), float(supplied[j][-1] * 1e3)],

@@ -334,29 +334,18 @@ def check_time_step(time_step_s, limit_s, clause, duration_min, horizon_min, fie
                          f"gives {points:.3g} steps; at most {MAX_GRID_POINTS:.0e} (use a larger step)")
 
 
-#: Smallest specific heat of carbon steel [J/(kg K)]: EN 1993-1-2 eq (3.2a) at 20 C (it rises from there).
-STEEL_SPECIFIC_HEAT_MIN = 425.0 + 0.773 * 20.0 - 1.69e-3 * 20.0 ** 2 + 2.22e-6 * 20.0 ** 3
-
-
 def check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s"):
-    """Refuse protection so thin that eq (4.27), stepped explicitly, overshoots the gas in one step.
+    """Refuse protection so thin that eq (4.27), stepped explicitly, overshoots the gas in one step
+    (:func:`steelfire.heat.stable_min_thickness_m`, with the material's largest conductivity)."""
+    from .heat import stable_min_thickness_m
 
-    EN 1993-1-2 eq (4.27) moves the steel by a (theta_g - theta_a) per step with
-    a = lambda_p (Ap/V) dt / (d_p c_a rho_a (1 + phi/3)), phi = c_p rho_p d_p (Ap/V) / (c_a rho_a).
-    Above a = 1 the steel passes the gas temperature within a step, and the history oscillates and
-    grows without bound. Checked with the material's largest conductivity and the smallest c_a;
-    a = 1 gives the least thickness d_min = 2 L / (B + sqrt(B^2 + 4 A L)), where
-    A = c_p rho_p (Ap/V) / 3, B = c_a rho_a and L = lambda_p (Ap/V) dt.
-    """
-    ca_rho = STEEL_SPECIFIC_HEAT_MIN * code["steel_density_kg_m3"]
     for i, m in enumerate(members):
         if not m.protected or m.thickness_mm is None:
             continue
         mat = materials[m.protection]
         lam = max(v for _, v in mat.conductivity_table)
-        quad = mat.specific_heat * mat.density * m.section_factor_per_m / 3.0
-        load = lam * m.section_factor_per_m * time_step_s
-        d_min_mm = 1e3 * 2.0 * load / (ca_rho + math.sqrt(ca_rho ** 2 + 4.0 * quad * load))
+        d_min_mm = 1e3 * float(stable_min_thickness_m(lam, mat.specific_heat, mat.density, m.section_factor_per_m,
+                                                      time_step_s, code["steel_density_kg_m3"]))
         if m.thickness_mm < d_min_mm:
             raise InputError(
                 f"member[{i + 1}] ({m.name}).thickness_mm", m.thickness_mm,

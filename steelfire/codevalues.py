@@ -54,7 +54,6 @@ _DEFS = {
     "section_factor_min_bare_per_m": CodeValue(10.0, "1/m", "EN 1993-1-2 4.2.5.1(1), Am/V not below 10 m-1", 0.0, 1000.0),
     "max_time_step_bare_s": CodeValue(5.0, "s", "EN 1993-1-2 4.2.5.1(4), time step not more than 5 s", 0.01, 60.0),
     "max_time_step_protected_s": CodeValue(30.0, "s", "EN 1993-1-2 4.2.5.2(3), time step not more than 30 s", 0.01, 300.0),
-    "critical_temperature_class4_C": CodeValue(350.0, "C", "EN 1993-1-2 4.2.3.6(1), class 4 sections", 20.0, 1200.0),
 }
 
 

@@ -384,6 +384,26 @@ def batch(time_s, gas_C, bare, ksh_amv, alpha_c, eps_res, rho_a,
     return peak, peak_t, cross, at_q, last, hist
 
 
+#: Smallest specific heat of carbon steel [J/(kg K)]: EN 1993-1-2 eq (3.2a) at 20 C (it rises from there).
+STEEL_SPECIFIC_HEAT_MIN = 425.0 + 0.773 * 20.0 - 1.69e-3 * 20.0 ** 2 + 2.22e-6 * 20.0 ** 3
+
+
+def stable_min_thickness_m(conductivity, specific_heat, density, section_factor_per_m, time_step_s, rho_a=7850.0):
+    """Least protection thickness [m] for which eq (4.27), stepped explicitly, cannot carry the steel
+    past the gas temperature in one step.
+
+    Eq (4.27) moves the steel by a (theta_g - theta_a) per step with
+    a = lambda_p (Ap/V) dt / (d_p c_a rho_a (1 + phi/3)), phi = c_p rho_p d_p (Ap/V) / (c_a rho_a).
+    Above a = 1 the history oscillates and grows without bound. With the largest conductivity and
+    the smallest c_a, a = 1 gives d_min = 2 L / (B + sqrt(B^2 + 4 A L)), where
+    A = c_p rho_p (Ap/V) / 3, B = c_a rho_a and L = lambda_p (Ap/V) dt. Works on arrays.
+    """
+    ca_rho = STEEL_SPECIFIC_HEAT_MIN * rho_a
+    quad = np.asarray(specific_heat) * np.asarray(density) * np.asarray(section_factor_per_m) / 3.0
+    load = np.asarray(conductivity) * np.asarray(section_factor_per_m) * time_step_s
+    return 2.0 * load / (ca_rho + np.sqrt(ca_rho ** 2 + 4.0 * quad * load))
+
+
 def moisture_delay_s(moisture_percent: float, density: float, thickness_m: float, conductivity: float) -> float:
     """Delay t_v [s] during which free water in the protection holds the steel at 100 C.
 

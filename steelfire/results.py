@@ -48,6 +48,7 @@ def _equivalence_dict(e):
     return {"annex_f_min": _r(e["annex_f_min"]), "cib_w14_min": _r(e["cib_w14_min"]),
             "equal_temperature_min": _r(e["equal_temperature_min"]),
             "unconservative": list(e["unconservative"]),
+            "resists": dict(e["resists"]),
             "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
             "annex_f_k_c": _sig(e["annex_f_k_c"]),
             "annex_f_small_compartment_min": _r(e["annex_f_small_compartment_min"])}

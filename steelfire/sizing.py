@@ -26,8 +26,11 @@ from . import heat
 
 #: Bisection stops when the bracket is this narrow [m] (0.1 mm).
 TOLERANCE_M = 1e-4
-#: Thicknesses tried by the burnout scan, spaced evenly in log(thickness) over the material's range.
-SCAN_POINTS = 24
+#: At most this many thicknesses per member in the burnout scan: the supplied thicknesses
+#: themselves where there are no more, else this many spaced evenly in log(thickness) over the
+#: supplied range (about 7 % apart over 0.5-100 mm). A passing window narrower than that spacing,
+#: between two scan points that both fail, can be missed: the member is then reported not achievable.
+SCAN_POINTS = 64
 
 
 @dataclass
@@ -68,6 +71,7 @@ class Criterion:
     achievable: np.ndarray
     iterations: int
     bracket_m: np.ndarray
+    failing_m: np.ndarray = None  # the failing end of the final bracket (NaN: passes at the least thickness)
 
 
 class Problem:
@@ -96,13 +100,13 @@ class Problem:
 
     def standard_passes(self, idx, d_m):
         """Reaches the critical temperature no earlier than required (standard fire)."""
-        cross = self._run(self.standard, idx, d_m, self.critical_C[idx])[2]
-        return np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9)
+        peak, _, cross = self._run(self.standard, idx, d_m, self.critical_C[idx])[:3]
+        return np.isfinite(peak) & (np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9))
 
     def burnout_passes(self, idx, d_m):
         """Peak over the whole design fire at most the critical temperature."""
         peak = self._run(self.design, idx, d_m, np.full(len(idx), np.inf))[0]
-        return peak <= self.critical_C[idx]
+        return np.isfinite(peak) & (peak <= self.critical_C[idx])
 
     def passes(self, idx, d_m):
         """Both criteria that apply, at thicknesses ``d_m`` of the members ``idx``."""
@@ -138,11 +142,12 @@ def size_standard_period(p: Problem, d_min_m, d_max_m, tol_m=TOLERANCE_M) -> Cri
     """Least thickness meeting the standard period, members with a required period (others NaN)."""
     n = len(p.m)
     out = np.full(n, np.nan)
+    failing = np.full(n, np.nan)
     achievable = np.ones(n, dtype=bool)
     bracket = np.zeros(n)
     idx = np.nonzero(~np.isnan(p.required_s))[0]
     if len(idx) == 0:
-        return Criterion(out, achievable, 0, bracket)
+        return Criterion(out, achievable, 0, bracket, failing)
     lo, hi = np.asarray(d_min_m, float)[idx], np.asarray(d_max_m, float)[idx]
     ok_hi = p.standard_passes(idx, hi)
     ok_lo = p.standard_passes(idx, lo)
@@ -154,27 +159,39 @@ def size_standard_period(p: Problem, d_min_m, d_max_m, tol_m=TOLERANCE_M) -> Cri
         d, rounds, br = _bisect(p.standard_passes, idx[todo], lo[todo], hi[todo], tol_m)
         out[idx[todo]] = d
         bracket[idx[todo]] = br
-    return Criterion(out, achievable, rounds, bracket)
+        failing[idx[todo]] = d - br
+    return Criterion(out, achievable, rounds, bracket, failing)
 
 
-def size_burnout(p: Problem, d_min_m, d_max_m, tol_m=TOLERANCE_M, scan_points=SCAN_POINTS) -> Criterion:
-    """Least thickness whose design-fire peak (cooling included) is at most critical: scan upward
-    over the range, then bisect the first passing interval."""
+def scan_grid(supplied_m, points=SCAN_POINTS):
+    """The burnout scan for one member: its supplied thicknesses, or ``points`` of them spread evenly
+    in log(thickness) over the supplied range (both ends included)."""
+    s = np.asarray(supplied_m, dtype=float)
+    if len(s) <= points:
+        return s
+    g = np.exp(np.linspace(np.log(s[0]), np.log(s[-1]), points))
+    g[0], g[-1] = s[0], s[-1]
+    return g
+
+
+def size_burnout(p: Problem, grids, tol_m=TOLERANCE_M) -> Criterion:
+    """Least thickness whose design-fire peak (cooling included) is at most critical: the scan
+    ``grids`` (one ascending array per member, :func:`scan_grid`) are tried upward in one batch,
+    then the first passing interval is bisected."""
     n = len(p.m)
     out = np.full(n, np.nan)
-    achievable = np.zeros(n, dtype=bool)
+    failing = np.full(n, np.nan)
     bracket = np.zeros(n)
     if p.design is None:
-        return Criterion(out, np.ones(n, dtype=bool), 0, bracket)
-    d_min_m, d_max_m = np.asarray(d_min_m, float), np.asarray(d_max_m, float)
-    frac = np.linspace(0.0, 1.0, scan_points)
-    grid = np.exp(np.log(d_min_m)[:, None] + frac[None, :] * np.log(d_max_m / d_min_m)[:, None])  # n x K
-    idx_all = np.repeat(np.arange(n), scan_points)
-    ok = p.burnout_passes(idx_all, grid.ravel()).reshape(n, scan_points)
+        return Criterion(out, np.ones(n, dtype=bool), 0, bracket, failing)
+    k = max(len(g) for g in grids)
+    grid = np.array([np.concatenate([g, np.full(k - len(g), g[-1])]) for g in grids])  # n x K, ends repeated
+    idx_all = np.repeat(np.arange(n), k)
+    ok = p.burnout_passes(idx_all, grid.ravel()).reshape(n, k)
     first = np.where(ok.any(axis=1), ok.argmax(axis=1), -1)
     achievable = first >= 0
     at_min = first == 0
-    out[at_min] = d_min_m[at_min]
+    out[at_min] = grid[at_min, 0]
     todo = np.nonzero(first > 0)[0]
     rounds = 0
     if len(todo):
@@ -183,24 +200,29 @@ def size_burnout(p: Problem, d_min_m, d_max_m, tol_m=TOLERANCE_M, scan_points=SC
         d, rounds, br = _bisect(p.burnout_passes, todo, lo, hi, tol_m)
         out[todo] = d
         bracket[todo] = br
-    return Criterion(out, achievable, rounds, bracket)
+        failing[todo] = d - br
+    return Criterion(out, achievable, rounds, bracket, failing)
 
 
-def round_up_and_verify(p: Problem, needed_m, achievable, supplied_m):
-    """The least supplied thickness >= the governing one that passes BOTH criteria.
+def round_up_and_verify(p: Problem, failing_m, achievable, supplied_m):
+    """The least supplied thickness that passes BOTH criteria.
 
-    ``supplied_m`` is a list (per member) of ascending supplied thicknesses [m]. Because the burnout
-    peak need not fall with thickness, each candidate is checked with the kernel; members whose
-    candidates all fail are not achievable. Returns (chosen_m with NaN where none, achievable).
+    ``failing_m`` is, per member, the largest thickness known to fail a criterion (the failing ends
+    of the bisection brackets; NaN or below the supply where the least thickness passes), so the
+    candidates are the supplied thicknesses above it, tried upward. ``supplied_m`` is a list (per
+    member) of ascending supplied thicknesses [m]. Because the burnout peak need not fall with
+    thickness, each candidate is checked with the kernel; members whose candidates all fail are not
+    achievable. Returns (chosen_m with NaN where none, achievable).
     """
-    n = len(needed_m)
+    n = len(failing_m)
     chosen = np.full(n, np.nan)
     ok_out = np.asarray(achievable, dtype=bool).copy()
     pos = np.zeros(n, dtype=np.int64)
     for i in range(n):
         if ok_out[i]:
             s = supplied_m[i]
-            pos[i] = int(np.searchsorted(s, needed_m[i] - 1e-9, side="left"))
+            f = failing_m[i]
+            pos[i] = 0 if np.isnan(f) else int(np.searchsorted(s, f, side="right"))
             if pos[i] >= len(s):
                 ok_out[i] = False
     active = np.nonzero(ok_out)[0]

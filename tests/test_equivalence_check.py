@@ -136,3 +136,25 @@ def test_more_opening_never_raises_annex_f_for_protected(count, extra):
     b["compartment"]["opening"][0]["count"] = count + extra
     a["analysis"]["allow_out_of_scope"] = b["analysis"]["allow_out_of_scope"] = True
     assert analyse(b).members[0].equivalence["annex_f_min"] <= analyse(a).members[0].equivalence["annex_f_min"] + 1e-9
+
+
+def test_resists_compares_the_members_own_standard_fire_time():
+    # Annex F verification: t_fi,d (the member's time to critical under the standard fire) >= t_e,d
+    res = analyse(BASE)
+    p1 = res.members[0]
+    t_fi = p1.standard_fire_time_to_critical_min
+    assert t_fi is not None
+    for route, ok in p1.equivalence["resists"].items():
+        assert ok == (t_fi >= p1.equivalence[f"{route}_min"])
+    assert set(p1.equivalence["resists"]) == {"annex_f", "cib_w14", "equal_temperature"}
+
+
+def test_required_equal_to_horizon_still_judged():
+    # peak not reached within the horizon, required period = horizon: the equal-temperature route
+    # exceeds the requirement, so it does not meet it (False, not missing)
+    d = copy.deepcopy(BASE)
+    d["analysis"]["standard_horizon_min"] = 30.0
+    d["member"] = [dict(BASE["member"][0], required_minutes=30, thickness_mm=10.0, section_factor_per_m=300.0)]
+    e = analyse(d).members[0].equivalence
+    assert e["equal_temperature_min"] is None
+    assert e["meets_required"]["equal_temperature"] is False

@@ -26,6 +26,11 @@ def fires(q=370.0, o=0.04, b=1500.0, hours=6.0):
     return std, sizing.Fire(td, pf.gas_temperature(td), 35.0)
 
 
+def grid(lo_m, hi_m, step_m=0.5e-3):
+    """The burnout scan over a material supplied from lo to hi in 0.5 mm steps."""
+    return sizing.scan_grid(np.arange(lo_m, hi_m + 1e-12, step_m))
+
+
 def problem(ap_v, crit, req_min, design=True, **kw):
     std, des = fires()
     return sizing.Problem(thermal(ap_v, **kw), crit, np.asarray(req_min, float) * 60.0, std, des if design else None,
@@ -60,7 +65,7 @@ def test_standard_period_against_independent_search():
 def test_burnout_sized_passes_and_0p2mm_less_fails():
     ap_v = [100.0, 160.0, 240.0]
     p = problem(ap_v, [560.0, 600.0, 620.0], [np.nan] * 3)
-    r = sizing.size_burnout(p, np.full(3, 5e-3), np.full(3, 0.08))
+    r = sizing.size_burnout(p, [grid(5e-3, 0.08)] * 3)
     assert r.achievable.all()
     idx = np.arange(3)
     assert p.burnout_passes(idx, r.thickness_m).all()
@@ -78,7 +83,7 @@ def test_burnout_non_monotone_heavy_protection():
     peaks = np.array([max(twins.protected_history(list(des.time_s), list(des.gas_C), ap_v, d, 800.0, 1700.0,
                                                   [(20.0, 0.2)])) for d in ds[::5]])
     assert np.argmin(peaks) not in (0, len(peaks) - 1)   # a real minimum inside the range: not monotone
-    r = sizing.size_burnout(p, np.array([5e-3]), np.array([0.1]))
+    r = sizing.size_burnout(p, [grid(5e-3, 0.1)])
     assert r.achievable[0]
     d = r.thickness_m[0]
     assert p.burnout_passes(np.array([0]), np.array([d]))[0]
@@ -101,10 +106,47 @@ def test_round_up_and_verify_skips_failing_supplied_thickness():
     ap_v, crit = 200.0, 600.0
     std, des = fires()
     p = sizing.Problem(thermal([ap_v]), [crit], [np.nan], std, des, EPS, RHO_A)
-    r = sizing.size_burnout(p, np.array([5e-3]), np.array([0.1]))
-    supplied = [np.array([r.thickness_m[0] + 0.0001, 0.2])]
-    chosen, ok = sizing.round_up_and_verify(p, r.thickness_m, r.achievable, supplied)
-    assert ok[0] and chosen[0] == supplied[0][0]
+    r = sizing.size_burnout(p, [grid(5e-3, 0.1)])
+    d = r.thickness_m[0]
+    # the first candidate above the failing end fails (too thin), the next passes: it is taken
+    supplied = [np.array([d - 5e-3, d + 1e-4, 0.2])]
+    chosen, ok = sizing.round_up_and_verify(p, np.array([5e-3]), r.achievable, supplied)
+    assert ok[0] and chosen[0] == supplied[0][1]
+    # a supplied thickness between the failing end and the bisection's passing end is not skipped
+    between = r.failing_m[0] + 0.5 * (d - r.failing_m[0])
+    if p.burnout_passes(np.array([0]), np.array([between]))[0]:
+        chosen, ok = sizing.round_up_and_verify(p, r.failing_m, r.achievable, [np.array([between, d])])
+        assert chosen[0] == between
     # a list whose only thickness above the need fails (too thick: the burnout peak rose again)
-    chosen, ok = sizing.round_up_and_verify(p, r.thickness_m, r.achievable, [np.array([0.099])])
+    chosen, ok = sizing.round_up_and_verify(p, r.failing_m, r.achievable, [np.array([0.099])])
     assert not ok[0] and np.isnan(chosen[0])
+
+
+def test_scan_grid_uses_supplied_thicknesses_or_a_log_spread():
+    few = np.array([12.5e-3, 15e-3, 20e-3])
+    assert np.array_equal(sizing.scan_grid(few), few)
+    many = np.arange(0.5e-3, 100e-3 + 1e-12, 0.5e-3)
+    g = sizing.scan_grid(many)
+    assert len(g) == sizing.SCAN_POINTS and g[0] == many[0] and g[-1] == many[-1]
+    assert np.all(np.diff(np.log(g)) < 0.09)  # about 7 % apart
+
+
+def test_batch_many_chunks_and_threshold_at_start():
+    """More members than one chunk (the parallel path) and a threshold at or below 20 C."""
+    from steelfire import heat
+
+    t = time_grid(3600.0, 5.0)
+    g = nominal.standard_fire(t)
+    n = heat.CHUNK * 2 + 37
+    ap = np.linspace(30.0, 300.0, n)
+    d = np.full(n, 0.015)
+    one = np.ones(n)
+    thr = np.full(n, 500.0)
+    thr[5] = 20.0
+    out = heat.batch(t, g, np.zeros(n, np.bool_), ap, 25.0, EPS, RHO_A, d, one * 800.0, one * 1700.0,
+                     np.full((n, 1), 20.0), np.full((n, 1), 0.2), np.ones(n, np.int64), np.zeros(n), thr,
+                     np.zeros(0, np.int64), False)
+    for m in (0, heat.CHUNK - 1, heat.CHUNK, n - 1):
+        ref = twins.protected_history(list(t), list(g), ap[m], 0.015, 800.0, 1700.0, [(20.0, 0.2)])
+        assert out[0][m] == pytest.approx(max(ref), rel=1e-9)
+    assert out[2][5] == 0.0

@@ -23,9 +23,10 @@ GROWTH_TLIM = {"slow": "t_lim_slow_min", "medium": "t_lim_medium_min", "fast": "
 def area_factor(floor_area_m2: float, code=DEFAULTS) -> float:
     """delta_q1 [-], the fire activation risk due to the size of the compartment, EN 1991-1-2 Table E.1.
 
-    Between the rows of the table, delta_q1 is interpolated linearly in log10(A_f) (the rows are a
-    decade apart in area, and the table gives no interpolation rule: common practice, no source); below
-    25 m2 and above 10 000 m2 the end rows are held.
+    Between the rows of the table, delta_q1 is interpolated linearly in log10(A_f) (the table gives
+    no interpolation rule; log-linear suits rows spaced by factors of 2 to 10 in area and gives a
+    higher, conservative, value than linear interpolation: common practice, no source); below 25 m2
+    and above 10 000 m2 the end rows are held (above 10 000 m2 the analysis warns).
     """
     if not floor_area_m2 > 0:
         raise InputError("compartment.floor_area_m2", floor_area_m2, "must be > 0 [m2]")

@@ -109,15 +109,15 @@ def scope_violations(opening_factor_m05, thermal_inertia, total_area_fire_load_M
     c = code
     out = []
 
-    def between(field, value, lo, hi, unit):
-        if not (lo <= value <= hi):
-            out.append((field, value, f"Annex A covers {lo:g} to {hi:g} {unit}"))
+    def between(field, value, digits, lo, hi, unit):
+        if not (lo <= value <= hi):  # the raw value is compared; the rounded one is only shown
+            out.append((field, round(value, digits), f"Annex A covers {lo:g} to {hi:g} {unit}"))
 
-    between("opening factor O", round(opening_factor_m05, 5), c["annex_a_opening_factor_min"],
+    between("opening factor O", opening_factor_m05, 6, c["annex_a_opening_factor_min"],
             c["annex_a_opening_factor_max"], "m^0.5")
-    between("thermal inertia b", round(thermal_inertia, 2), c["annex_a_thermal_inertia_min"],
+    between("thermal inertia b", thermal_inertia, 2, c["annex_a_thermal_inertia_min"],
             c["annex_a_thermal_inertia_max"], "J/(m2 s^0.5 K)")
-    between("fire load q_t,d", round(total_area_fire_load_MJ_m2, 3), c["annex_a_fire_load_min_MJ_m2"],
+    between("fire load q_t,d", total_area_fire_load_MJ_m2, 3, c["annex_a_fire_load_min_MJ_m2"],
             c["annex_a_fire_load_max_MJ_m2"], "MJ/m2")
     if floor_area_m2 is not None and floor_area_m2 > c["annex_a_floor_area_max_m2"]:
         out.append(("compartment.floor_area_m2", floor_area_m2,
