@@ -32,11 +32,11 @@ def test_external_and_hydrocarbon_curves():
     # hand calculation, EN 1991-1-2 eq (3.5): 660 (1 - 0.687 e^-9.6 - 0.313 e^-114) + 20 = 679.97 C at 30 min
     assert nominal.external_fire(1800.0) == pytest.approx(660 * (1 - 0.687 * math.exp(-9.6)) + 20, abs=1e-9)
     assert nominal.external_fire(1800.0) == pytest.approx(679.97, abs=0.01)
-    # the external curve levels off at 680 C (EN 1991-1-2 3.2.2, common practice, no source)
+    # the external curve levels off at 660 + 20 = 680 C (the asymptote of EN 1991-1-2 eq (3.5))
     assert nominal.external_fire(4 * 3600.0) == pytest.approx(680.0, abs=0.01)
     # hand calculation, eq (3.6) at 10 min: 1080 (1 - 0.325 e^-1.67 - 0.675 e^-25) + 20 = 1033.93 C
     assert nominal.hydrocarbon_fire(600.0) == pytest.approx(1033.93, abs=0.01)
-    # the hydrocarbon curve levels off at 1100 C (common practice, no source)
+    # the hydrocarbon curve levels off at 1080 + 20 = 1100 C (the asymptote of EN 1991-1-2 eq (3.6))
     assert nominal.hydrocarbon_fire(4 * 3600.0) == pytest.approx(1100.0, abs=0.01)
 
 
