@@ -129,6 +129,7 @@ class Case:
     fire_load: FireLoad | None = None
     source: Path | None = None
     code_overrides: dict = field(default_factory=dict)
+    inputs: tuple = ()  # the files read: case file, members_file, fire table
 
 
 # ----------------------------------------------------------------------------------------------
@@ -265,11 +266,15 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     if not isinstance(members_raw, list):
         raise InputError("member", members_raw, "must be an array of [[member]] tables")
     rows = [(f"member[{i + 1}]", m) for i, m in enumerate(members_raw)]
+    inputs = [Path(source)] if source else []
+    if fire.file is not None:
+        inputs.append(fire.file)
     if top.has("members_file"):
         from .schedule import read_schedule
 
         sched = top.string("members_file")
         rows += read_schedule(Path(base_dir) / sched)
+        inputs.append(Path(base_dir) / sched)
     if not rows:
         raise InputError("member", None, "needs at least one [[member]] table or a members_file")
     if len(rows) > MAX_MEMBERS:
@@ -291,7 +296,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
                              f"must be <= analysis.standard_horizon_min = {analysis.standard_horizon_min:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
-                code_overrides={k: float(v) for k, v in code_data.items()})
+                code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs))
 
 
 def _check_integers(v, where):

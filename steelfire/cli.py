@@ -131,7 +131,7 @@ def _load(args):
 
         check_out_dir(args.out)  # a bad --out fails (exit 2) before the analysis runs
     if getattr(args, "csv", None) is not None:
-        check_csv_target(args.csv)
+        check_csv_target(args.csv, args.case)
     case = load_case(args.case)
     if args.time_step_s is not None:
         try:
@@ -166,6 +166,13 @@ def _run_size(args) -> int:
     from .analysis import size
 
     case = _load(args)
+    if args.csv is not None:
+        from pathlib import Path
+
+        from .errors import InputError
+
+        if Path(args.csv).exists() and Path(args.csv).resolve() in {Path(q).resolve() for q in case.inputs}:
+            raise InputError("--csv", args.csv, "must not name an input of the case (case file, schedule, fire table)")
     result = size(case, histories=args.out is not None)
     _write(result, args, case, "size")
     if args.csv is not None:
@@ -179,14 +186,16 @@ SCHEDULE_COLUMNS = ("member", "kind", "section", "section_factor_per_m", "protec
                     "peak_steel_temperature_C", "achievable", "note")
 
 
-def check_csv_target(path):
-    """--csv must name a file in an existing, writable folder (not a folder)."""
+def check_csv_target(path, case_path=None):
+    """--csv must name a file in an existing, writable folder (not a folder), and not an input."""
     import os
     from pathlib import Path
 
     from .errors import InputError
 
     p = Path(path)
+    if case_path is not None and p.exists() and p.resolve() == Path(case_path).resolve():
+        raise InputError("--csv", str(path), "must not name the case file")
     if p.is_dir():
         raise InputError("--csv", str(path), "must name a file, not a folder")
     parent = p.parent if str(p.parent) else Path(".")

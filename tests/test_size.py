@@ -222,3 +222,11 @@ def test_check_needs_thickness_size_does_not(tmp_path):
     r = run("size", str(c), "--json")
     assert r.returncode == 0, r.stderr
     assert json.loads(r.stdout)["members"][0]["sizing"]["chosen_mm"] in (12.5, 15.0, 20.0, 25.0, 30.0)
+
+
+def test_csv_never_overwrites_an_input(tmp_path):
+    for target in ("cases/office_floor_schedule.csv", "cases/office_floor.toml"):
+        before = (ROOT / target).read_bytes()
+        r = run("size", "cases/office_floor.toml", "--csv", target)
+        assert r.returncode == 2 and "--csv" in r.stderr and r.stdout == ""
+        assert (ROOT / target).read_bytes() == before
