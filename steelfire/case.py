@@ -301,14 +301,14 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
 
 def _check_integers(v, where):
     """Refuse integers outside 64 bits anywhere in the data (TOML 1.0 integers are 64-bit)."""
-    if isinstance(v, dict):
-        for k, x in v.items():
-            _check_integers(x, f"{where}.{k}" if where else str(k))
-    elif isinstance(v, list):
-        for i, x in enumerate(v):
-            _check_integers(x, f"{where}[{i + 1}]")
-    elif isinstance(v, int) and not isinstance(v, bool) and not (INT64_MIN <= v <= INT64_MAX):
-        raise InputError(where, v, "integers must fit in 64 bits (TOML 1.0); give a number in the key's unit")
+    items = v.items() if isinstance(v, dict) else enumerate(v, start=1)
+    for k, x in items:
+        t = type(x)
+        if t is int and not (INT64_MIN <= x <= INT64_MAX):
+            at = (f"{where}.{k}" if where else str(k)) if isinstance(v, dict) else f"{where}[{k}]"
+            raise InputError(at, x, "integers must fit in 64 bits (TOML 1.0); give a number in the key's unit")
+        if t is dict or t is list:
+            _check_integers(x, (f"{where}.{k}" if where else str(k)) if isinstance(v, dict) else f"{where}[{k}]")
 
 
 def time_step_limit(members, code):

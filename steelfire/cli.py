@@ -23,7 +23,10 @@ class _Parser(argparse.ArgumentParser):
 
 def _parser():
     p = _Parser(prog="steelfire",
-                description="Fire resistance of steel members: design fire, steel temperatures, verdicts.")
+                description="Fire resistance of steel members: design fire, steel temperatures, verdicts.",
+                epilog="Caution: simplified code methods (EN 1991-1-2, EN 1993-1-2) within their validity "
+                       "limits; results to be verified by a competent fire engineer; national annexes, local "
+                       "codes and the approving authority prevail.")
     from . import __version__
 
     p.add_argument("--version", action="version", version=f"steelfire {__version__}")
