@@ -155,6 +155,21 @@ def specific_heat_select(x):
 
 
 @nb.njit(cache=True, inline="always")
+def _outputs(n_m, n_q, n_t, keep_history):
+    """The batch outputs: peak, its time, crossing time (NaN: never), queried temperatures, last step, history."""
+    hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
+    return (np.empty(n_m), np.empty(n_m), np.full(n_m, np.nan), np.full((n_m, n_q), np.nan), np.zeros(n_m), hist)
+
+
+@nb.njit(cache=True, inline="always")
+def _chunk_state(w):
+    """Per-member state of a chunk: temperature (20 C), peak, its step, crossing step (-1: not yet;
+    -2: at the start), the temperatures either side of the crossing, the last increment."""
+    return (np.full(w, 20.0), np.full(w, 20.0), np.zeros(w, dtype=np.int64), np.full(w, -1, dtype=np.int64),
+            np.zeros(w), np.zeros(w), np.zeros(w))
+
+
+@nb.njit(cache=True, inline="always")
 def _record(th, lo, w, step, q, query_idx, at_q, hist, keep_history):
     """After time step ``step``: the chunk's temperatures into the history and the queried columns."""
     if keep_history:
@@ -189,23 +204,12 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
     n_m = ap_v.shape[0]
     n_q = query_idx.shape[0]
     n_k = lam_T.shape[1]
-    peak = np.empty(n_m)
-    peak_t = np.empty(n_m)
-    cross = np.full(n_m, np.nan)
-    at_q = np.full((n_m, n_q), np.nan)
-    last = np.zeros(n_m)
-    hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
+    peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
     n_chunks = (n_m + CHUNK - 1) // CHUNK
     for c in nb.prange(n_chunks):
         lo = c * CHUNK
         w = min(lo + CHUNK, n_m) - lo
-        th = np.full(w, 20.0)
-        pk = np.full(w, 20.0)
-        pki = np.zeros(w, dtype=np.int64)
-        ci = np.full(w, -1, dtype=np.int64)
-        cx = np.zeros(w)
-        cn = np.zeros(w)
-        dl = np.zeros(w)
+        th, pk, pki, ci, cx, cn, dl = _chunk_state(w)
         held = np.zeros(w)
         cap = np.empty(w)
         cap3 = np.empty(w)
@@ -285,24 +289,13 @@ def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, q
     n_t = time_s.shape[0]
     n_m = ksh_amv.shape[0]
     n_q = query_idx.shape[0]
-    peak = np.empty(n_m)
-    peak_t = np.empty(n_m)
-    cross = np.full(n_m, np.nan)
-    at_q = np.full((n_m, n_q), np.nan)
-    last = np.zeros(n_m)
-    hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
+    peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
     er = eps_res * STEFAN_BOLTZMANN
     n_chunks = (n_m + CHUNK - 1) // CHUNK
     for c in nb.prange(n_chunks):
         lo = c * CHUNK
         w = min(lo + CHUNK, n_m) - lo
-        th = np.full(w, 20.0)
-        pk = np.full(w, 20.0)
-        pki = np.zeros(w, dtype=np.int64)
-        ci = np.full(w, -1, dtype=np.int64)
-        cx = np.zeros(w)
-        cn = np.zeros(w)
-        dl = np.zeros(w)
+        th, pk, pki, ci, cx, cn, dl = _chunk_state(w)
         kk = np.empty(w)
         thr = np.empty(w)
         for j in range(w):
