@@ -4,8 +4,9 @@
     python benchmarks/run.py --quick    # fewer repeats
 
 Figures: ns per member-step of a tight plain-Python twin of eq (4.27), the scalar numba kernel and
-the batch kernel (1 and 2 threads); time to size a 1,000-member schedule on both criteria; wall time
-of `steelfire check` on the largest bundled case with a warm and a cold numba cache.
+the batch kernel (1 and 2 threads); time to size a 1,000-member schedule on both criteria; where a
+20,000-member `steelfire check` spends its time (benchmarks/check_profile.py); wall time of
+`steelfire check` on the largest bundled case with a warm and a cold numba cache.
 """
 
 from __future__ import annotations
@@ -25,6 +26,7 @@ import numpy as np
 
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(ROOT / "benchmarks"))
 
 import numba  # noqa: E402
 
@@ -246,49 +248,26 @@ def sizing_figures(repeats):
     return med, med2
 
 
-def overhead_figures():
-    """A 20,000-member check (members as in the sizing benchmark): time in the kernels against
-    the whole analysis, and the JSON document."""
-    import json
+def overhead_figures(members=20000):
+    """A 20,000-member check through the CLI (benchmarks/check_profile.py): the whole command, its
+    start-up, and the run after start-up split into kernels and the per-member work around them."""
+    import check_profile
 
-    from steelfire import analysis
-    from steelfire import heat as heat_mod
+    f = check_profile.measure(members)
+    check_profile.report(f)
+    return f
 
-    case_dict = sizing_case(n=20000, seed=5, thickness=True, as_dict=True)
-    from steelfire.case import case_from_dict
 
-    t0 = time.perf_counter()
-    case = case_from_dict(case_dict, base_dir=ROOT / "cases")
-    t_load = time.perf_counter() - t0
-    spent = [0.0]
-    real = heat_mod.batch
+def largest_case():
+    """The bundled case with the most members (the schedule of a members_file counted)."""
+    from steelfire import load_case
 
-    def timed(*a, **k):
-        t = time.perf_counter()
-        out = real(*a, **k)
-        spent[0] += time.perf_counter() - t
-        return out
-
-    analysis.analyse(case, histories=False)  # warm
-    heat_mod.batch = timed
-    try:
-        spent[0] = 0.0
-        t0 = time.perf_counter()
-        res = analysis.analyse(case, histories=False)
-        t_an = time.perf_counter() - t0
-    finally:
-        heat_mod.batch = real
-    t0 = time.perf_counter()
-    json.dumps(res.to_dict())  # compact, as the CLI prints a schedule of this size
-    t_js = time.perf_counter() - t0
-    total = t_load + t_an + t_js
-    print(f"check of 20,000 members: validation {t_load:.2f} s, analysis {t_an:.2f} s of which kernels "
-          f"{spent[0]:.2f} s ({spent[0] / t_an:.0%}), JSON {t_js:.2f} s; kernels {spent[0] / total:.0%} of it all")
+    cases = sorted((ROOT / "cases").glob("*.toml"))
+    return max(cases, key=lambda p: len(load_case(p).members))
 
 
 def check_wall_times(repeats):
-    cases = sorted((ROOT / "cases").glob("*.toml"), key=lambda p: p.stat().st_size)
-    largest = max(cases, key=lambda p: len(p.read_text()))
+    largest = largest_case()
     cmd = [sys.executable, "-m", "steelfire", "check", str(largest), "--json"]
     env = dict(os.environ)
     cold = []

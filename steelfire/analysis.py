@@ -158,46 +158,79 @@ def _critical(member, code):
     return steel.critical_temperature(member.utilisation), "EN 1993-1-2 eq (4.22)"
 
 
+def _critical_all(members):
+    """(theta_a,cr [C], source) per member; eq (4.22) evaluated once per distinct utilisation."""
+    by_mu = {}
+    out = []
+    for m in members:
+        if m.critical_temperature_C is not None:
+            out.append((m.critical_temperature_C, "given"))
+        else:
+            mu = m.utilisation
+            if mu not in by_mu:
+                by_mu[mu] = (steel.critical_temperature(mu), "EN 1993-1-2 eq (4.22)")
+            out.append(by_mu[mu])
+    return out
+
+
 NOMINAL_CURVES = ("standard", "external", "hydrocarbon")
 
 
-def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False):
-    """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch`); ``nominal_fire``
-    selects the shadow factor of EN 1993-1-2 eq (4.26a) (nominal fires) or (4.26b).
+class MemberColumns:
+    """The members' kernel inputs that do not depend on the fire, as arrays, built once per run.
 
-    Built per material, then spread over the members with numpy (schedules have many members and
-    few materials)."""
-    n = len(members)
-    names = sorted({m.protection for m in members if m.protected})
-    mats = [case.materials[nm] for nm in names]
-    k = max([len(mt.conductivity_table) for mt in mats] + [1])
-    n_mat = len(mats) + 1  # last row: a placeholder for bare members
-    m_rho, m_cp, m_moist, m_lam20 = (np.ones(n_mat) for _ in range(4))
-    m_moist[:] = 0.0
-    m_T, m_V, m_N = np.zeros((n_mat, k)), np.ones((n_mat, k)), np.ones(n_mat, dtype=np.int64)
-    for r, mt in enumerate(mats):
-        m_rho[r], m_cp[r], m_moist[r], m_lam20[r] = mt.density, mt.specific_heat, mt.moisture_percent, \
-            mt.conductivity_at_20C
-        tab = mt.conductivity_table
-        m_N[r] = len(tab)
-        for j, (th, lam) in enumerate(tab):
-            m_T[r, j], m_V[r, j] = th, lam
-    row = {nm: r for r, nm in enumerate(names)}
-    bare_row = n_mat - 1
-    idx = np.fromiter((row[m.protection] if m.protection is not None else bare_row for m in members),
-                      dtype=np.int64, count=n)
-    bare = idx == bare_row
-    sf = np.fromiter((m.section_factor_per_m for m in members), dtype=float, count=n)
-    ksh = np.fromiter(((m.shadow_factor_nominal if nominal_fire else m.shadow_factor_natural) for m in members),
-                      dtype=float, count=n)
-    d_mm = np.fromiter((m.thickness_mm if m.thickness_mm is not None else 1.0 for m in members), dtype=float, count=n)
-    d_p = np.where(bare, 1.0, d_mm * 1e-3 * thickness_scale)
-    amv = np.where(bare, ksh * sf, sf)
-    rho_p, c_p = m_rho[idx], m_cp[idx]
-    moist, lam20 = m_moist[idx], m_lam20[idx]
-    # moisture delay t_v = p rho_p d_p^2 / (5 lambda_p) [min] (steelfire.heat.moisture_delay_s)
-    delay = np.where(moist > 0.0, 60.0 * moist * rho_p * d_p ** 2 / (5.0 * lam20), 0.0)
-    return bare, amv, d_p, rho_p, c_p, m_T[idx], m_V[idx], m_N[idx], delay
+    Materials are few and members many: each material's properties are set out once (one row per
+    material, a last row standing in for bare members) and spread over the members by index.
+    """
+
+    def __init__(self, case: Case, members):
+        n = len(members)
+        names = sorted({m.protection for m in members if m.protection is not None})
+        mats = [case.materials[nm] for nm in names]
+        k = max([len(mt.conductivity_table) for mt in mats] + [1])
+        n_mat = len(mats) + 1  # last row: a placeholder for bare members
+        m_rho, m_cp, m_lam20 = np.ones(n_mat), np.ones(n_mat), np.ones(n_mat)
+        m_moist = np.zeros(n_mat)
+        m_T, m_V, m_N = np.zeros((n_mat, k)), np.ones((n_mat, k)), np.ones(n_mat, dtype=np.int64)
+        for r, mt in enumerate(mats):
+            m_rho[r], m_cp[r], m_moist[r], m_lam20[r] = mt.density, mt.specific_heat, mt.moisture_percent, \
+                mt.conductivity_at_20C
+            tab = mt.conductivity_table
+            m_N[r] = len(tab)
+            for j, (th, lam) in enumerate(tab):
+                m_T[r, j], m_V[r, j] = th, lam
+        row = {nm: r for r, nm in enumerate(names)}
+        row[None] = n_mat - 1
+        self.material_row = np.fromiter((row[m.protection] for m in members), dtype=np.int64, count=n)
+        self.bare = self.material_row == n_mat - 1
+        self.section_factor_per_m = np.fromiter((m.section_factor_per_m for m in members), dtype=float, count=n)
+        self.shadow_factor_nominal = np.fromiter((m.shadow_factor_nominal for m in members), dtype=float, count=n)
+        self.shadow_factor_natural = np.fromiter((m.shadow_factor_natural for m in members), dtype=float, count=n)
+        self.thickness_mm = np.fromiter((1.0 if m.thickness_mm is None else m.thickness_mm for m in members),
+                                        dtype=float, count=n)
+        self._materials = (m_rho, m_cp, m_moist, m_lam20, m_T, m_V, m_N)
+
+    def arrays(self, thickness_scale=1.0, nominal_fire=False, select=None):
+        """Kernel input arrays (see :func:`steelfire.heat.batch`) for the members ``select`` (a
+        boolean mask or indices; all if None); ``nominal_fire`` selects the shadow factor of
+        EN 1993-1-2 eq (4.26a) (nominal fires) or (4.26b)."""
+        sel = slice(None) if select is None else select
+        idx, bare, sf = self.material_row[sel], self.bare[sel], self.section_factor_per_m[sel]
+        ksh = (self.shadow_factor_nominal if nominal_fire else self.shadow_factor_natural)[sel]
+        m_rho, m_cp, m_moist, m_lam20, m_T, m_V, m_N = self._materials
+        d_p = np.where(bare, 1.0, self.thickness_mm[sel] * 1e-3 * thickness_scale)
+        amv = np.where(bare, ksh * sf, sf)
+        rho_p, c_p = m_rho[idx], m_cp[idx]
+        moist, lam20 = m_moist[idx], m_lam20[idx]
+        # moisture delay t_v = p rho_p d_p^2 / (5 lambda_p) [min] (steelfire.heat.moisture_delay_s)
+        delay = np.where(moist > 0.0, 60.0 * moist * rho_p * d_p ** 2 / (5.0 * lam20), 0.0)
+        return bare, amv, d_p, rho_p, c_p, m_T[idx], m_V[idx], m_N[idx], delay
+
+
+def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False):
+    """Kernel input arrays for ``members`` (see :func:`steelfire.heat.batch` and
+    :meth:`MemberColumns.arrays`)."""
+    return MemberColumns(case, members).arrays(thickness_scale, nominal_fire)
 
 
 def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
@@ -232,41 +265,45 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
 
     members = case.members
     for i, m in enumerate(members):
-        if m.protected and m.thickness_mm is None:
+        if m.protection is not None and m.thickness_mm is None:
             raise InputError(f"member[{i + 1}] ({m.name}).thickness_mm", None,
                              "is missing; the check needs it (steelfire size computes it)")
-    crit = [_critical(m, code) for m in members]
+    crit = _critical_all(members)
     thresholds = np.array([c[0] for c in crit])
     nominal_design = case.fire.curve in NOMINAL_CURVES
-    peak, peak_t, _, _, last, hist = run_members(case, members, t, g, fire.alpha_c, thresholds,
-                                                 keep_history=histories, nominal_fire=nominal_design)
+    cols = MemberColumns(case, members)
+    peak, peak_t, _, _, last, hist = run_members(case, None, t, g, fire.alpha_c, thresholds,
+                                                 keep_history=histories,
+                                                 arrays=cols.arrays(nominal_fire=nominal_design))
     # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
     # and for the equal-steel-temperature equivalence: when the same member reaches its design-fire
     # peak under the standard fire (the members run twice in one batch, one threshold each)
     ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
     gs = nominal.standard_fire(ts)
     n = len(members)
-    std_arrays = tuple(np.concatenate([a, a]) for a in thermal_arrays(case, members, nominal_fire=True))
+    std_arrays = tuple(np.concatenate([a, a]) for a in cols.arrays(nominal_fire=True))
     _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],
                                         np.concatenate([thresholds, peak]), arrays=std_arrays)
     cross, equal_t = cross2[:n], cross2[n:]
     equiv = equivalence_routes(case, fire, members, equal_t, warnings, cross)
 
-    results = []
-    for i, m in enumerate(members):
-        results.append(MemberResult(
+    # one member result each, from columns converted to Python floats once
+    peak_l, peak_min_l = peak.tolist(), (peak_t / 60.0).tolist()
+    cross_min_l = [None if v != v else v for v in (cross / 60.0).tolist()]  # NaN: not within the horizon
+    results = [
+        MemberResult(
             name=m.name, kind=m.kind, section_factor_per_m=m.section_factor_per_m, protection=m.protection,
-            thickness_mm=m.thickness_mm, critical_temperature_C=float(crit[i][0]),
-            critical_temperature_source=crit[i][1], peak_steel_temperature_C=float(peak[i]),
-            time_of_peak_steel_min=float(peak_t[i] / 60.0),
-            standard_fire_time_to_critical_min=None if np.isnan(cross[i]) else float(cross[i] / 60.0),
+            thickness_mm=m.thickness_mm, critical_temperature_C=float(cr[0]), critical_temperature_source=cr[1],
+            peak_steel_temperature_C=pk, time_of_peak_steel_min=pt, standard_fire_time_to_critical_min=cm,
             required_minutes=m.required_minutes,
-            shadow_factor=(m.shadow_factor_nominal if nominal_design else m.shadow_factor_natural)
-            if not m.protected else None, utilisation=m.utilisation,
-            steel_temperature_C=hist[:, i].copy() if histories else None,
-            equivalence=equiv["members"][i]))
+            shadow_factor=None if m.protection is not None else (
+                m.shadow_factor_nominal if nominal_design else m.shadow_factor_natural),
+            utilisation=m.utilisation, steel_temperature_C=hist[:, i].copy() if histories else None,
+            equivalence=eq)
+        for i, (m, cr, pk, pt, cm, eq) in enumerate(zip(members, crit, peak_l, peak_min_l, cross_min_l,
+                                                         equiv["members"]))]
 
-    warnings += _member_warnings(case, members, fire, t, g, peak, last)
+    warnings += _member_warnings(case, members, fire, t, g, peak, last, cols)
     fr.equivalence_factors = equiv["factors"]
     return AnalysisResult(title=case.title, fire=fr, members=results, code_values=dict(code),
                           warnings=fire.out_of_scope + warnings, out_of_scope=list(fire.out_of_scope),
@@ -297,7 +334,7 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
         common = dict(design_fire_load_MJ_m2=f["design_fire_load_MJ_m2"], floor_area_m2=c.floor_area_m2,
                       vertical_opening_area_m2=f["vertical_opening_area_m2"], thermal_inertia=f["thermal_inertia"],
                       code=case.code)
-        kinds = sorted({m.protected for m in members}, reverse=True)
+        kinds = sorted({m.protection is not None for m in members}, reverse=True)
         for prot in kinds:
             annex_f[prot] = eq.annex_f_time_equivalence(
                 height_m=c.height_m, roof_opening_area_m2=c.roof_opening_area_m2, protected=prot,
@@ -328,38 +365,9 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
     else:
         warnings.append("Time equivalence by Annex F and CIB W14 needs [compartment] and [fire_load]; "
                         "only the equal-steel-temperature route is given.")
-    if any(not m.protected for m in members) and cib is not None:
+    if cib is not None and any(m.protection is None for m in members):
         warnings.append("CIB W14 is derived for protected (insulated) members: null for the bare members.")
-    out = []
-    n = len(members)
-    cts = np.full(n, np.nan) if critical_time_s is None else np.asarray(critical_time_s, dtype=float)
-    cross_std_min = [None if np.isnan(v) else float(v) / 60.0 for v in cts]
-    for i, m in enumerate(members):
-        a = annex_f[m.protected].t_e_min if annex_f else None
-        w = cib.t_e_min if (cib is not None and m.protected) else None
-        d = None if math.isnan(equal_time_s[i]) else float(equal_time_s[i] / 60.0)
-        routes = {"annex_f": a, "cib_w14": w}
-        direct = d if d is not None else horizon  # null: beyond the horizon, so at least the horizon
-        uncons = [r for r, v in routes.items() if v is not None and v < (1.0 - UNCONSERVATIVE_FRACTION) * direct]
-        meets = None
-        if m.required_minutes is not None:
-            meets = {r: (v <= m.required_minutes + 1e-9) for r, v in routes.items() if v is not None}
-            if d is not None:
-                meets["equal_temperature"] = d <= m.required_minutes + 1e-9
-            elif m.required_minutes <= horizon:
-                meets["equal_temperature"] = False
-        small = annex_f[m.protected].small_compartment if annex_f else None
-        # the verification the routes stand for (t_fi,d >= t_e,d): the member's own standard-fire time
-        # to critical against each route's equivalent time
-        t_fi = cross_std_min[i]
-        resists = {r: (t_fi is None or t_fi >= v - 1e-9) for r, v in
-                   (("annex_f", a), ("cib_w14", w), ("equal_temperature", d)) if v is not None}
-        out.append({"annex_f_min": a, "cib_w14_min": w, "equal_temperature_min": d, "unconservative": uncons,
-                    "resists": resists,
-                    "annex_f_small_compartment_min": small.t_e_min if small is not None else None,
-                    "meets_required": meets,
-                    "annex_f_k_c": annex_f[m.protected].k_c if annex_f else None,
-                    "equal_temperature_beyond_horizon": d is None})
+    out = _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, horizon)
     flagged = [m.name for m, e in zip(members, out) if e["unconservative"]]
     if flagged:
         warnings.append(
@@ -373,15 +381,86 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
     return {"factors": factors, "members": out}
 
 
-def _member_warnings(case, members, fire, t, g, peak, last):
+def _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, horizon):
+    """Each member's equivalence entry: the routes' times, which are unconservative, whether each
+    stays within the required period (``meets_required``) and whether the member's own standard-fire
+    time to critical reaches it (``resists``, the check t_fi,d >= t_e,d).
+
+    Annex F and CIB W14 give one time per group (protected, bare); the comparisons are made for all
+    members at once with numpy (NaN stands for null and compares false), then assembled per member.
+    """
+    n = len(members)
+    prot = np.fromiter((m.protection is not None for m in members), dtype=bool, count=n)
+    nan = float("nan")
+
+    def group(value_of):  # a per-group value as a column (NaN where null)
+        v_p, v_b = value_of(True), value_of(False)
+        return np.where(prot, nan if v_p is None else v_p, nan if v_b is None else v_b)
+
+    a = group(lambda p: annex_f[p].t_e_min if p in annex_f else None)
+    w = group(lambda p: cib.t_e_min if (cib is not None and p) else None)
+    kc = group(lambda p: annex_f[p].k_c if p in annex_f else None)
+    small = group(lambda p: annex_f[p].small_compartment.t_e_min
+                  if p in annex_f and annex_f[p].small_compartment is not None else None)
+    d = np.asarray(equal_time_s, dtype=float) / 60.0
+    t_fi = (np.full(n, np.nan) if critical_time_s is None else np.asarray(critical_time_s, dtype=float)) / 60.0
+    req = np.fromiter((nan if m.required_minutes is None else m.required_minutes for m in members),
+                      dtype=float, count=n)
+    direct = np.where(np.isnan(d), horizon, d)  # null: beyond the horizon, so at least the horizon
+    limit = (1.0 - UNCONSERVATIVE_FRACTION) * direct
+    uncons_a, uncons_w = (a < limit).tolist(), (w < limit).tolist()
+    meets_a, meets_w, meets_d = ((v <= req + 1e-9).tolist() for v in (a, w, d))
+    # beyond the horizon, the equal-temperature time exceeds any period within it
+    meets_d_null = (req <= horizon).tolist()
+    no_t_fi = np.isnan(t_fi)
+    res_a, res_w, res_d = ((no_t_fi | (t_fi >= v - 1e-9)).tolist() for v in (a, w, d))
+
+    def col(v):
+        return [None if x != x else x for x in v.tolist()]
+
+    a_l, w_l, d_l, kc_l, small_l = col(a), col(w), col(d), col(kc), col(small)
+    has_req = [m.required_minutes is not None for m in members]
+    out = []
+    for i in range(n):
+        ai, wi, di = a_l[i], w_l[i], d_l[i]
+        uncons = []
+        if uncons_a[i]:
+            uncons.append("annex_f")
+        if uncons_w[i]:
+            uncons.append("cib_w14")
+        meets = None
+        if has_req[i]:
+            meets = _by_route(ai, wi, di, meets_a[i], meets_w[i], meets_d[i])
+            if di is None and meets_d_null[i]:
+                meets["equal_temperature"] = False
+        resists = _by_route(ai, wi, di, res_a[i], res_w[i], res_d[i])
+        out.append({"annex_f_min": ai, "cib_w14_min": wi, "equal_temperature_min": di, "unconservative": uncons,
+                    "resists": resists, "annex_f_small_compartment_min": small_l[i], "meets_required": meets,
+                    "annex_f_k_c": kc_l[i], "equal_temperature_beyond_horizon": di is None})
+    return out
+
+
+def _by_route(annex_f_min, cib_w14_min, equal_temperature_min, annex_f, cib_w14, equal_temperature):
+    """{route: verdict} for the routes that give a time (annex_f, cib_w14, equal_temperature)."""
+    out = {}
+    if annex_f_min is not None:
+        out["annex_f"] = annex_f
+    if cib_w14_min is not None:
+        out["cib_w14"] = cib_w14
+    if equal_temperature_min is not None:
+        out["equal_temperature"] = equal_temperature
+    return out
+
+
+def _member_warnings(case, members, fire, t, g, peak, last, cols):
     out = []
     from .protection import assessment_warnings
 
     for i, m in enumerate(members):
-        if m.protected:
+        if m.protection is not None:
             out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
                                        float(peak[i]), fire.cools)
-    mixed = [m.name for m in members if not m.protected and m.shadow_factor is None
+    mixed = [m.name for m in members if m.protection is None and m.shadow_factor is None
              and m.shadow_factor_nominal != m.shadow_factor_natural]
     if mixed and case.fire.curve not in NOMINAL_CURVES:
         out.append(f"Shadow factor for {_names(mixed)}: eq (4.26b) in the design fire, eq (4.26a) (0.9 times) "
@@ -400,12 +479,12 @@ def _member_warnings(case, members, fire, t, g, peak, last):
             out.append(
                 f"Steel still heating at the end of the design fire (duration_min = {case.fire.duration_min:g}) "
                 f"for {_names(heating)}: the true peak comes later; extend fire.duration_min.")
-        prot = [i for i, m in enumerate(members) if m.protected]
-        if prot:
-            sub = [members[i] for i in prot]
-            thr = np.full(len(sub), np.inf)
-            thick_peak = run_members(case, sub, t, g, fire.alpha_c, thr, thickness_scale=1.0 + THICKNESS_PROBE)[0]
-            rising = [members[i].name for j, i in enumerate(prot) if thick_peak[j] > peak[i] + 0.01]
+        prot = np.flatnonzero(~cols.bare)
+        if len(prot):
+            thr = np.full(len(prot), np.inf)
+            probe = cols.arrays(thickness_scale=1.0 + THICKNESS_PROBE, select=prot)
+            thick_peak = run_members(case, None, t, g, fire.alpha_c, thr, arrays=probe)[0]
+            rising = [members[i].name for i in prot[thick_peak > peak[prot] + 0.01]]
             if rising:
                 out.append(
                     f"Burnout peak rises with thickness for {_names(rising)}: 10 % more protection gives a hotter "

@@ -7,6 +7,9 @@ project's design notes; units are in the key names (SI, temperatures in C).
 
 from __future__ import annotations
 
+import contextlib
+import gc
+import itertools
 import math
 import sys
 from dataclasses import dataclass, field
@@ -16,6 +19,7 @@ from . import codevalues
 from .errors import InputError
 from .fire.compartment import Layer, Opening, Surface
 from .protection import ASSESSED_FIRES, GENERIC_FILE, Material
+from .schedule import ABSENT
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -51,6 +55,19 @@ MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent",
 MEMBER_KEYS = ("name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation",
                "critical_temperature_C", "protection", "thickness_mm", "required_minutes", "shadow_factor",
                "section", "exposure", "encasement")
+
+# The ranges of the [[member]] numbers, key -> (unit, lo, hi), each lo < value <= hi. The one place
+# they are written: the row reader (_read_member) and the column-wise fast path (_members_of) both
+# take them from here. All bounds are finite, so a value inside a range is finite.
+MEMBER_NUMBERS = {
+    "critical_temperature_C": ("C", 20.0, 1200.0),
+    "thickness_mm": ("mm", 0.0, 300.0),
+    "shadow_factor": ("-", 0.0, 1.0),
+    "section_factor_per_m": ("1/m", 0.0, 1000.0),
+    "required_minutes": ("min", 0.0, MAX_DURATION_MIN),
+}
+UTILISATION_RANGE = (0.013, 1.0)          # lo <= mu0 < hi, EN 1993-1-2 eq (4.22)
+MIN_SECTION_FACTOR_PROTECTED_PER_M = 1.0  # Ap/V; bare steel takes code["section_factor_min_bare_per_m"]
 
 
 # ----------------------------------------------------------------------------------------------
@@ -265,42 +282,82 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     members_raw = top.raw("member", [])
     if not isinstance(members_raw, list):
         raise InputError("member", members_raw, "must be an array of [[member]] tables")
-    rows = [(f"member[{i + 1}]", m) for i, m in enumerate(members_raw)]
     inputs = [Path(source)] if source else []
     if fire.file is not None:
         inputs.append(fire.file)
-    if top.has("members_file"):
-        from .schedule import read_schedule
+    with _collector_paused():
+        blocks = [_InlineRows(members_raw)]
+        if top.has("members_file"):
+            from .schedule import read_schedule_columns
 
-        sched = top.string("members_file")
-        rows += read_schedule(Path(base_dir) / sched)
-        inputs.append(Path(base_dir) / sched)
-    if not rows:
-        raise InputError("member", None, "needs at least one [[member]] table or a members_file")
-    if len(rows) > MAX_MEMBERS:
-        raise InputError("member", len(rows), f"at most {MAX_MEMBERS} members per case")
-    members = tuple(_read_member(m, where, materials, code) for where, m in rows)
-    names = {}
-    for (where, _), m in zip(rows, members):
-        if m.name in names:
-            raise InputError(f"{_member_where(where, m.name)}.name", m.name, f"must be unique (also {names[m.name]})")
-        names[m.name] = where
+            sched = top.string("members_file")
+            blocks.append(read_schedule_columns(Path(base_dir) / sched))
+            inputs.append(Path(base_dir) / sched)
+        count = sum(b.n for b in blocks)
+        if not count:
+            raise InputError("member", None, "needs at least one [[member]] table or a members_file")
+        if count > MAX_MEMBERS:
+            raise InputError("member", count, f"at most {MAX_MEMBERS} members per case")
+        members = tuple(m for b in blocks for m in _members_of(b, materials, code))
+    names = [m.name for m in members]
+    if len(set(names)) != len(names):
+        _refuse_repeated_name(blocks, members)
     top.done()
 
     limit, clause = time_step_limit(members, code)
     check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
     check_protection_step(members, materials, code, analysis.time_step_s)
-    for (where, _), m in zip(rows, members):
-        if m.required_minutes is not None and m.required_minutes > analysis.standard_horizon_min:
-            raise InputError(f"{_member_where(where, m.name)}.required_minutes", m.required_minutes,
-                             f"must be <= analysis.standard_horizon_min = {analysis.standard_horizon_min:g} min")
+    horizon = analysis.standard_horizon_min
+    for k, m in enumerate(members):
+        if m.required_minutes is not None and m.required_minutes > horizon:
+            raise InputError(f"{_member_where(_where_at(blocks, k), m.name)}.required_minutes", m.required_minutes,
+                             f"must be <= analysis.standard_horizon_min = {horizon:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
                 code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs))
 
 
+@contextlib.contextmanager
+def _collector_paused():
+    """Pause Python's cyclic garbage collector while the member rows are read (resumed after, also on error).
+
+    Reading a long schedule allocates tens of thousands of objects (CSV rows, Members) that form no
+    reference cycles. Left running, the collector walks the young objects every 700 allocations and,
+    as they pile up, the whole heap: a third of the time of reading 20,000 members. Paused, it walks
+    them once when resumed. Reference counting frees memory as always; only cycle detection waits.
+    """
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if was_enabled:
+            gc.enable()
+
+
+def _refuse_repeated_name(blocks, members):
+    """Raise for the first member whose name an earlier member already has."""
+    names = {}
+    for k, m in enumerate(members):
+        where = _where_at(blocks, k)
+        if m.name in names:
+            raise InputError(f"{_member_where(where, m.name)}.name", m.name, f"must be unique (also {names[m.name]})")
+        names[m.name] = where
+
+
+def _where_at(blocks, k):
+    """The error-message name of the k-th member row of the case (counting through the blocks)."""
+    for b in blocks:
+        if k < b.n:
+            return b.where(k)
+        k -= b.n
+    raise IndexError(k)
+
+
 def _check_integers(v, where):
     """Refuse integers outside 64 bits anywhere in the data (TOML 1.0 integers are 64-bit)."""
+    if type(v) is list and _flat_tables_fit(v):
+        return  # nothing to find below: skip the walk (a long [[member]] array)
     items = v.items() if isinstance(v, dict) else enumerate(v, start=1)
     for k, x in items:
         t = type(x)
@@ -309,6 +366,22 @@ def _check_integers(v, where):
             raise InputError(at, x, "integers must fit in 64 bits (TOML 1.0); give a number in the key's unit")
         if t is dict or t is list:
             _check_integers(x, (f"{where}.{k}" if where else str(k)) if isinstance(v, dict) else f"{where}[{k}]")
+
+
+def _flat_tables_fit(items) -> bool:
+    """True if ``items`` is a list of tables holding no table or array, whose integers all fit in 64
+    bits: then :func:`_check_integers` has nothing to find in it. Checked in whole-list passes, so that
+    a long [[member]] array costs little; False (walk it) for anything else."""
+    if not all(type(x) is dict for x in items):
+        return False
+    values = list(itertools.chain.from_iterable(map(dict.values, items)))
+    types = set(map(type, values))
+    if dict in types or list in types:
+        return False
+    if int in types:
+        ints = [x for x in values if type(x) is int]
+        return INT64_MIN <= min(ints) and max(ints) <= INT64_MAX
+    return True
 
 
 def time_step_limit(members, code):
@@ -341,22 +414,52 @@ def check_time_step(time_step_s, limit_s, clause, duration_min, horizon_min, fie
 
 def check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s"):
     """Refuse protection so thin that eq (4.27), stepped explicitly, overshoots the gas in one step
-    (:func:`steelfire.heat.stable_min_thickness_m`, with the material's largest conductivity)."""
+    (:func:`steelfire.heat.stable_min_thickness_m`, with the material's largest conductivity).
+
+    The least thicknesses of all protected members are computed in one array call; the members it
+    finds too thin (or within 1e-9 of it, so that rounding cannot hide one) are then checked one by
+    one, in order, by :func:`_protection_step_error`, which decides and words the error."""
+    import numpy as np
+
     from .heat import stable_min_thickness_m
 
-    for i, m in enumerate(members):
-        if not m.protected or m.thickness_mm is None:
-            continue
-        mat = materials[m.protection]
-        lam = max(v for _, v in mat.conductivity_table)
-        d_min_mm = 1e3 * float(stable_min_thickness_m(lam, mat.specific_heat, mat.density, m.section_factor_per_m,
-                                                      time_step_s, code["steel_density_kg_m3"]))
-        if m.thickness_mm < d_min_mm:
-            raise InputError(
-                f"member[{i + 1}] ({m.name}).thickness_mm", m.thickness_mm,
-                f"too thin for the time step {time_step_s:g} s ({field}): eq (4.27) of EN 1993-1-2, stepped "
-                f"explicitly, needs d_p >= {d_min_mm:.3g} mm here (lambda_p = {lam:g} W/(m K), "
-                f"Ap/V = {m.section_factor_per_m:g} 1/m); give a thicker protection or a smaller time step")
+    at = [i for i, m in enumerate(members) if m.protection is not None and m.thickness_mm is not None]
+    if not at:
+        return
+    names = [members[i].protection for i in at]
+    used = {name: j for j, name in enumerate(dict.fromkeys(names))}  # material name -> its row in props
+    props = []  # (largest conductivity, specific heat, density) of each material used; NaN for a name
+    for name in used:  # not in ``materials``: its members become candidates, for _protection_step_error
+        mat = materials.get(name)
+        props.append((max(v for _, v in mat.conductivity_table), mat.specific_heat, mat.density)
+                     if mat is not None else (math.nan,) * 3)
+    lam, c_p, rho_p = np.array(props, dtype=float)[[used[name] for name in names]].T
+    am_v = np.array([members[i].section_factor_per_m for i in at], dtype=float)
+    d_mm = np.array([members[i].thickness_mm for i in at], dtype=float)
+    d_min_mm = 1e3 * stable_min_thickness_m(lam, c_p, rho_p, am_v, time_step_s, code["steel_density_kg_m3"])
+    for j in np.flatnonzero(~(d_mm >= d_min_mm * (1.0 + 1e-9))):
+        err = _protection_step_error(at[j], members[at[j]], materials, code, time_step_s, field)
+        if err is not None:
+            raise err
+
+
+def _protection_step_error(i, m, materials, code, time_step_s, field):
+    """The InputError for member ``i`` (``m``) if its protection is too thin for the time step, else None."""
+    from .heat import stable_min_thickness_m
+
+    if not m.protected or m.thickness_mm is None:
+        return None
+    mat = materials[m.protection]
+    lam = max(v for _, v in mat.conductivity_table)
+    d_min_mm = 1e3 * float(stable_min_thickness_m(lam, mat.specific_heat, mat.density, m.section_factor_per_m,
+                                                  time_step_s, code["steel_density_kg_m3"]))
+    if m.thickness_mm < d_min_mm:
+        return InputError(
+            f"member[{i + 1}] ({m.name}).thickness_mm", m.thickness_mm,
+            f"too thin for the time step {time_step_s:g} s ({field}): eq (4.27) of EN 1993-1-2, stepped "
+            f"explicitly, needs d_p >= {d_min_mm:.3g} mm here (lambda_p = {lam:g} W/(m K), "
+            f"Ap/V = {m.section_factor_per_m:g} 1/m); give a thicker protection or a smaller time step")
+    return None
 
 
 def _read_fire(t: _Table | None, base_dir: Path) -> FireSpec:
@@ -570,6 +673,126 @@ def _member_where(where, name):
     return where + (f" ({name})" if isinstance(name, str) and name else "")
 
 
+_MEMBER_KEY_SET = frozenset(MEMBER_KEYS)
+_NUMBER_TYPES = (int, float)  # by exact type: a bool is no number here, nor is a subclass (left to _read_member)
+#: The [[member]] keys _members_of reads itself; a row giving any other key goes to _read_member.
+_FAST_KEYS = frozenset({"name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation",
+                        "critical_temperature_C", "protection", "thickness_mm", "required_minutes",
+                        "shadow_factor"})
+
+
+class _InlineRows:
+    """The [[member]] tables of the case file, held by column like a :class:`steelfire.schedule.Schedule`.
+
+    ``columns`` maps each member key some table gives to its values, one per table, ``ABSENT`` where
+    a table does not give it. ``suspect`` holds the tables the columns cannot stand for (not a
+    table, or with a key outside MEMBER_KEYS); :func:`_members_of` sends them to the row reader.
+    """
+
+    def __init__(self, tables: list):
+        self.tables = tables
+        self.n = len(tables)
+        self.columns = {}
+        if not all(type(t) is dict for t in tables):
+            self.suspect = range(self.n)
+            return
+        keys = set().union(*tables)
+        self.suspect = ()
+        if not keys <= _MEMBER_KEY_SET:
+            self.suspect = [i for i, t in enumerate(tables) if not t.keys() <= _MEMBER_KEY_SET]
+        self.columns = {k: [t.get(k, ABSENT) for t in tables] for k in MEMBER_KEYS if k in keys}
+
+    def where(self, i: int) -> str:
+        return f"member[{i + 1}]"
+
+    def row(self, i: int):
+        return self.tables[i]
+
+
+def _checked_member(fields: dict) -> Member:
+    """``Member(**fields)`` for a complete set of fields, all checked by :func:`_members_of`.
+
+    Built without the generated ``__init__``: its fifteen frozen-dataclass ``object.__setattr__``
+    calls were the larger part of reading a long schedule, and a Member holding its fields in a
+    plain dict of numbers and strings costs the garbage collector one visit instead of fifteen.
+    Member has no ``__post_init__`` and no default factory, so the result equals ``Member(**fields)``
+    in every respect (==, hash, repr, fields); tests/test_case_fast.py holds it to that.
+    """
+    m = object.__new__(Member)
+    object.__setattr__(m, "__dict__", fields)
+    return m
+
+
+def _members_of(rows, materials, code) -> list:
+    """The Members of a block of member rows (an :class:`_InlineRows` or a Schedule), in order:
+    equal to ``[_read_member(rows.row(i), rows.where(i), materials, code) for i in range(rows.n)]``,
+    raising the same first error.
+
+    Why: on a schedule of thousands of members the row reader's per-key bookkeeping costs as much as
+    the heat transfer itself. How: the rules of :func:`_read_member` are checked a column at a time,
+    each pass only collecting the rows it cannot vouch for (``bad``). A row that no pass collects is
+    one _read_member accepts, so its Member is built here directly. Every other row goes through
+    _read_member, in order, which builds it or raises; as all rows before it are good, its error is
+    the first of the block. Nothing is refused here: _read_member stays the only source of error
+    messages. A row giving a key outside _FAST_KEYS (a catalogue ``section``, ``exposure``,
+    ``encasement``) always takes _read_member. Ranges come from MEMBER_NUMBERS and
+    UTILISATION_RANGE, as in _read_member.
+    """
+    n = rows.n
+    cols = rows.columns
+    absent = [ABSENT] * n
+    name, kind, restrained, am_v, mu, tcr, prot, thick, req, ksh = (cols.get(k, absent) for k in (
+        "name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation", "critical_temperature_C",
+        "protection", "thickness_mm", "required_minutes", "shadow_factor"))
+    (_, t_lo, t_hi), (_, d_lo, d_hi), (_, k_lo, k_hi), (_, a_lo, a_hi), (_, r_lo, r_hi) = (MEMBER_NUMBERS[k] for k in (
+        "critical_temperature_C", "thickness_mm", "shadow_factor", "section_factor_per_m", "required_minutes"))
+    mu_lo, mu_hi = UTILISATION_RANGE
+    a_lo_bare, a_lo_protected = code["section_factor_min_bare_per_m"], MIN_SECTION_FACTOR_PROTECTED_PER_M
+    num = _NUMBER_TYPES
+
+    bad = set(rows.suspect)
+    for key, values in cols.items():
+        if key not in _FAST_KEYS:  # section, exposure, encasement (catalogue look-ups), and any new key
+            bad.update(i for i, v in enumerate(values) if v is not ABSENT)
+    bad.update(i for i, v in enumerate(name) if not (type(v) is str and v.strip()))
+    bad.update(i for i, (k, r) in enumerate(zip(kind, restrained))
+               if not (k is ABSENT or (type(k) is str and k in KINDS))
+               or not (r is ABSENT or (type(r) is bool and (k is ABSENT or k == "beam"))))
+    bad.update(i for i, (u, t) in enumerate(zip(mu, tcr))  # exactly one of the two, in its range
+               if not (u is ABSENT and type(t) in num and t_lo < t <= t_hi
+                       or t is ABSENT and type(u) in num and mu_lo <= u < mu_hi))
+    if "protection" in cols:
+        bad.update(i for i, p in enumerate(prot) if not (p is ABSENT or (type(p) is str and p in materials)))
+    if "thickness_mm" in cols:  # only with protection
+        bad.update(i for i, (d, p) in enumerate(zip(thick, prot))
+                   if d is not ABSENT and not (p is not ABSENT and type(d) in num and d_lo < d <= d_hi))
+    if "shadow_factor" in cols:  # bare steel only
+        bad.update(i for i, (k, p) in enumerate(zip(ksh, prot))
+                   if k is not ABSENT and not (p is ABSENT and type(k) in num and k_lo < k <= k_hi))
+    bad.update(i for i, (a, p) in enumerate(zip(am_v, prot))
+               if not (type(a) in num and a_lo < a <= a_hi and a >= (a_lo_bare if p is ABSENT else a_lo_protected)))
+    if "required_minutes" in cols:
+        bad.update(i for i, v in enumerate(req) if v is not ABSENT and not (type(v) in num and r_lo < v <= r_hi))
+
+    out = []
+    for i, (nm, k, r, a, u, t, p, d, rq, sh) in enumerate(zip(name, kind, restrained, am_v, mu, tcr, prot, thick,
+                                                               req, ksh)):
+        if i in bad:
+            out.append(_read_member(rows.row(i), rows.where(i), materials, code))
+            continue
+        sh = None if sh is ABSENT else float(sh)
+        k_sh = 1.0 if sh is None else sh
+        out.append(_checked_member({
+            "name": nm, "kind": "beam" if k is ABSENT else k, "section_factor_per_m": float(a),
+            "utilisation": None if u is ABSENT else float(u),
+            "critical_temperature_C": None if t is ABSENT else float(t),
+            "protection": None if p is ABSENT else p, "thickness_mm": None if d is ABSENT else float(d),
+            "required_minutes": None if rq is ABSENT else float(rq), "shadow_factor": sh,
+            "laterally_restrained": None if r is ABSENT else r, "section": None, "exposure": None,
+            "encasement": None, "shadow_factor_nominal": k_sh, "shadow_factor_natural": k_sh}))
+    return out
+
+
 def _read_member(data, where0, materials, code) -> Member:
     name_guess = data.get("name") if isinstance(data, dict) else None
     where = _member_where(where0, name_guess)
@@ -582,25 +805,26 @@ def _read_member(data, where0, materials, code) -> Member:
     if restrained is not None and kind != "beam":
         raise InputError(f"{where}.laterally_restrained", restrained, "applies to beams only (kind = \"beam\")")
     mu = t.number("utilisation", "-", required=False)
-    if mu is not None and not (0.013 <= mu < 1.0):
-        raise InputError(f"{where}.utilisation", mu, "must be >= 0.013 and < 1 (EN 1993-1-2 eq (4.22))")
-    tcr = t.number("critical_temperature_C", "C", required=False, lo=20.0, lo_open=True, hi=1200.0)
+    mu_lo, mu_hi = UTILISATION_RANGE
+    if mu is not None and not (mu_lo <= mu < mu_hi):
+        raise InputError(f"{where}.utilisation", mu, f"must be >= {mu_lo:g} and < {mu_hi:g} (EN 1993-1-2 eq (4.22))")
+    tcr = _member_number(t, "critical_temperature_C")
     if (mu is None) == (tcr is None):
         raise InputError(f"{where}.utilisation", mu, "give utilisation or critical_temperature_C, exactly one")
     protection = t.string("protection", required=False)
-    thickness = t.number("thickness_mm", "mm", required=False, lo=0.0, lo_open=True, hi=300.0)
+    thickness = _member_number(t, "thickness_mm")
     if protection is not None:
         if protection not in materials:
             known = ", ".join(sorted(materials)) or "none defined"
             raise InputError(f"{where}.protection", protection, f"must name a [materials] table ({known})")
     elif thickness is not None:
         raise InputError(f"{where}.thickness_mm", thickness, "needs protection = a [materials] name")
-    sf_lo = code["section_factor_min_bare_per_m"] if protection is None else 1.0
+    sf_lo = code["section_factor_min_bare_per_m"] if protection is None else MIN_SECTION_FACTOR_PROTECTED_PER_M
     clause = " (EN 1993-1-2 4.2.5.1(1) for bare steel)" if protection is None else ""
     section = t.string("section", required=False)
     exposure = t.string("exposure", required=False)
     encasement = t.string("encasement", required=False)
-    ksh = t.number("shadow_factor", "-", required=False, lo=0.0, lo_open=True, hi=1.0)
+    ksh = _member_number(t, "shadow_factor")
     if ksh is not None and protection is not None:
         raise InputError(f"{where}.shadow_factor", ksh, "applies to bare steel only (EN 1993-1-2 4.2.5.1)")
     k_nom = k_nat = ksh if ksh is not None else 1.0
@@ -624,15 +848,21 @@ def _read_member(data, where0, materials, code) -> Member:
         for key, v in (("exposure", exposure), ("encasement", encasement)):
             if v is not None:
                 raise InputError(f"{where}.{key}", v, "needs section = a catalogue profile (e.g. \"IPE 300\")")
-        am_v = t.number("section_factor_per_m", "1/m", lo=0.0, lo_open=True, hi=1000.0)
+        am_v = _member_number(t, "section_factor_per_m", required=True)
     if am_v < sf_lo:
         raise InputError(f"{where}.section_factor_per_m", round(am_v, 3), f"must be >= {sf_lo:g} 1/m{clause}")
-    req = t.number("required_minutes", "min", required=False, lo=0.0, lo_open=True, hi=MAX_DURATION_MIN)
+    req = _member_number(t, "required_minutes")
     t.done()
     return Member(name=name, kind=kind, section_factor_per_m=am_v, utilisation=mu, critical_temperature_C=tcr,
                   protection=protection, thickness_mm=thickness, required_minutes=req, shadow_factor=ksh,
                   laterally_restrained=restrained, section=section, exposure=exposure, encasement=encasement,
                   shadow_factor_nominal=k_nom, shadow_factor_natural=k_nat)
+
+
+def _member_number(t: _Table, key, required=False):
+    """A [[member]] number, in its range from MEMBER_NUMBERS."""
+    unit, lo, hi = MEMBER_NUMBERS[key]
+    return t.number(key, unit, required=required, lo=lo, lo_open=True, hi=hi)
 
 
 def _field(where, key, fn):

@@ -7,6 +7,7 @@ member passes and meets its period, 1 some member does not, 2 bad input.
 from __future__ import annotations
 
 import argparse
+import gc
 import json
 import sys
 
@@ -149,8 +150,13 @@ def _print(result, args, sizing=False):
     if args.json:
         # indented for a readable document; compact for large schedules (the indenting encoder is
         # the pure-Python one, several times slower)
-        indent = 2 if len(result.members) <= COMPACT_JSON_MEMBERS else None
-        sys.stdout.write(json.dumps(result.to_dict(), indent=indent, allow_nan=False) + "\n")
+        if len(result.members) <= COMPACT_JSON_MEMBERS:
+            text = json.dumps(result.to_dict(), indent=2, allow_nan=False)
+        else:
+            # a tree just built from plain values: no cycle to look for
+            text = json.dumps(result.to_dict(), separators=(",", ":"), allow_nan=False, check_circular=False)
+        sys.stdout.write(text)
+        sys.stdout.write("\n")
     else:
         sys.stdout.write(render_table(result, sizing=sizing) + "\n")
 
@@ -256,6 +262,11 @@ def main(argv=None) -> int:
     from .errors import InputError
 
     args = _parser().parse_args(argv)
+    # One run builds many small acyclic containers (member rows, result entries, the JSON tree) and
+    # frees them by reference counting; the cyclic collector would only re-scan them, which costs a
+    # large schedule as much again as building them. It is off for the run and back on after.
+    gc_was_on = gc.isenabled()
+    gc.disable()
     try:
         if args.command == "check":
             return _run_check(args)
@@ -264,4 +275,7 @@ def main(argv=None) -> int:
     except InputError as exc:
         sys.stderr.write(f"steelfire: error: {exc}\n")
         return EXIT_INPUT
+    finally:
+        if gc_was_on:
+            gc.enable()
     return EXIT_INPUT

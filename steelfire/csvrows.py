@@ -11,6 +11,13 @@ from .errors import InputError
 def read_rows(path, field: str, what: str):
     """Non-blank rows of a UTF-8 CSV file that are not comments (first cell starting with '#'),
     as (line number, cells) pairs. ``what`` says what the file should hold, for the error line."""
+    lines, rows = read_rows_split(path, field, what)
+    return list(zip(lines, rows))
+
+
+def read_rows_split(path, field: str, what: str):
+    """:func:`read_rows` as two parallel lists, (line numbers, rows of cells): a long schedule then
+    costs no pair per row."""
     p = Path(path)
     if not p.is_file():
         raise InputError(field, str(path), "must name an existing CSV file (relative to the case file)")
@@ -21,5 +28,15 @@ def read_rows(path, field: str, what: str):
         raise InputError(field, str(path), f"must be a readable UTF-8 CSV file ({exc.__class__.__name__})") from None
     except csv.Error as exc:
         raise InputError(field, str(path), f"must be a CSV file of {what} ({exc})") from None
-    return [(i + 1, r) for i, r in enumerate(rows)
-            if r and any(c.strip() for c in r) and not r[0].lstrip().startswith("#")]
+    # The first test is a quick sufficient one for _holds_data (the first cell starts with a character
+    # that is neither blank nor '#'); only rows that fail it are looked at in full.
+    lines = [i for i, r in enumerate(rows, 1)
+             if (r and (c := r[0][:1]) and c != "#" and not c.isspace()) or _holds_data(r)]
+    if len(lines) == len(rows):
+        return lines, rows
+    return lines, [rows[i - 1] for i in lines]
+
+
+def _holds_data(row) -> bool:
+    """The rule: a row counts unless it is empty, all blank, or a comment (first cell starting with '#')."""
+    return bool(row) and any(c.strip() for c in row) and not row[0].lstrip().startswith("#")

@@ -42,16 +42,123 @@ def _round_tree(v):
     return v
 
 
-def _equivalence_dict(e):
-    if e is None:
-        return None
-    return {"annex_f_min": _r(e["annex_f_min"]), "cib_w14_min": _r(e["cib_w14_min"]),
-            "equal_temperature_min": _r(e["equal_temperature_min"]),
-            "unconservative": list(e["unconservative"]),
-            "resists": dict(e["resists"]),
-            "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
-            "annex_f_k_c": _sig(e["annex_f_k_c"]),
-            "annex_f_small_compartment_min": _r(e["annex_f_small_compartment_min"])}
+def round_column(values, nd=2) -> list:
+    """``[_r(v, nd) for v in values]`` for a whole column at once (None and NaN become None).
+
+    numpy rounds as rint(v 10^nd) / 10^nd, which is the double nearest the decimal that Python's
+    ``round`` gives, except where v 10^nd lies within rounding error of a half: those few values are
+    rounded by ``round`` itself, so the column equals the per-value form exactly.
+    """
+    a = np.array([np.nan if v is None else v for v in values], dtype=float)
+    scale = 10.0 ** nd
+    with np.errstate(invalid="ignore", over="ignore"):
+        y = a * scale
+        r = np.rint(y) / scale
+        near_half = np.abs(y - np.floor(y) - 0.5) < 1e-6
+    out = r.tolist()
+    for i in np.flatnonzero(near_half | (np.isfinite(a) & ~np.isfinite(y))):
+        out[i] = round(float(a[i]), nd)
+    for i in np.flatnonzero(np.isnan(a)):
+        out[i] = None
+    return out
+
+
+def sig_column(values, n=6) -> list:
+    """``[_sig(v, n) for v in values]`` for a whole column at once (n significant figures).
+
+    Rounded by numpy at the decimal place each value's magnitude gives; values near a half at that
+    place, near a power of ten, zero or not finite go through :func:`_sig` itself, so the column
+    equals the per-value form exactly.
+    """
+    values = list(values)
+    a = np.array([np.nan if v is None else v for v in values], dtype=float)
+    if not len(a):
+        return []
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        mag = np.abs(a)
+        e = np.floor(np.log10(mag))
+        e = np.where(np.isfinite(e), e, 0.0)
+        nd = (n - 1) - e                       # decimal places that keep n significant figures
+        pos = nd >= 0
+        f_pos = 10.0 ** np.clip(nd, 0, 22)     # exact powers of ten
+        f_neg = 10.0 ** np.clip(-nd, 0, 22)
+        y = np.where(pos, a * f_pos, a / f_neg)
+        k = np.rint(y)
+        r = np.where(pos, k / f_pos, k * f_neg)
+        ya = np.abs(y)
+        exact = (np.isfinite(y) & (mag > 0) & (np.abs(nd) <= 22)
+                 & (ya >= 10.0 ** (n - 1)) & (ya < 10.0 ** n - 0.5 - 1e-6)
+                 & (np.abs(ya - np.floor(ya) - 0.5) >= 1e-6))
+    out = r.tolist()
+    for i in np.flatnonzero(~exact):
+        out[i] = _sig(values[i], n)  # None and NaN become None here
+    return out
+
+
+def _column(rows, key):
+    return [None if r is None else r[key] for r in rows]
+
+
+def member_dicts(members) -> list:
+    """The JSON form of ``members`` (MemberResult objects), built a column at a time.
+
+    One place for the member entries of the result document: :meth:`MemberResult.to_dict` calls it
+    with one member. Columns are rounded with numpy (:func:`round_column`, :func:`sig_column`), so a
+    schedule of many thousand members costs little beside its heat-transfer kernels.
+    """
+    ms = list(members)
+    if not ms:
+        return []
+    peak = round_column([m.peak_steel_temperature_C for m in ms])
+    crit = round_column([m.critical_temperature_C for m in ms])
+    margin = round_column([m.critical_temperature_C - m.peak_steel_temperature_C for m in ms])
+    t_peak = round_column([m.time_of_peak_steel_min for m in ms])
+    t_std = round_column([m.standard_fire_time_to_critical_min for m in ms])
+    req_raw = [m.required_minutes for m in ms]
+    passes = [p <= c for p, c in zip(peak, crit)]
+    meets = [None if q is None else (t is None or t >= q) for q, t in zip(req_raw, t_std)]
+    sf = sig_column([m.section_factor_per_m for m in ms])
+    thick = sig_column([m.thickness_mm for m in ms])
+    ksh = sig_column([m.shadow_factor for m in ms])
+    mu = sig_column([m.utilisation for m in ms])
+    req = sig_column(req_raw)
+    eqs = [m.equivalence for m in ms]
+    eq_a = round_column(_column(eqs, "annex_f_min"))
+    eq_w = round_column(_column(eqs, "cib_w14_min"))
+    eq_d = round_column(_column(eqs, "equal_temperature_min"))
+    eq_kc = sig_column(_column(eqs, "annex_f_k_c"))
+    eq_small = round_column(_column(eqs, "annex_f_small_compartment_min"))
+    out = []
+    for i, m in enumerate(ms):
+        e = eqs[i]
+        d = {
+            "name": m.name,
+            "kind": m.kind,
+            "peak_steel_temperature_C": peak[i],
+            "time_of_peak_steel_min": t_peak[i],
+            "critical_temperature_C": crit[i],
+            "passes": passes[i],
+            "margin_C": margin[i],
+            "standard_fire_time_to_critical_min": t_std[i],
+            "meets_required_period": meets[i],
+            # additions to the contract
+            "section_factor_per_m": sf[i],
+            "protection": m.protection,
+            "thickness_mm": thick[i],
+            "shadow_factor": ksh[i],
+            "utilisation": mu[i],
+            "critical_temperature_source": m.critical_temperature_source,
+            "required_minutes": req[i],
+            "equivalence": None if e is None else {
+                "annex_f_min": eq_a[i], "cib_w14_min": eq_w[i], "equal_temperature_min": eq_d[i],
+                "unconservative": list(e["unconservative"]), "resists": dict(e["resists"]),
+                "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
+                "annex_f_k_c": eq_kc[i], "annex_f_small_compartment_min": eq_small[i]},
+        }
+        if m.sizing is not None:
+            d["sizing"] = _sizing_dict(m.sizing)
+        out.append(d)
+    return out
 
 
 def _sizing_dict(s):
@@ -120,7 +227,7 @@ class FireResult:
         }
 
 
-@dataclass
+@dataclass(slots=True)
 class MemberResult:
     """Verdict of one member: design fire (cooling included) and the standard fire."""
 
@@ -161,27 +268,7 @@ class MemberResult:
         return self.passes and self.meets_required_period is not False
 
     def to_dict(self) -> dict:
-        return {
-            "name": self.name,
-            "kind": self.kind,
-            "peak_steel_temperature_C": _r(self.peak_steel_temperature_C),
-            "time_of_peak_steel_min": _r(self.time_of_peak_steel_min),
-            "critical_temperature_C": _r(self.critical_temperature_C),
-            "passes": self.passes,
-            "margin_C": _r(self.margin_C),
-            "standard_fire_time_to_critical_min": _r(self.standard_fire_time_to_critical_min),
-            "meets_required_period": self.meets_required_period,
-            # additions to the contract
-            "section_factor_per_m": _sig(self.section_factor_per_m),
-            "protection": self.protection,
-            "thickness_mm": _sig(self.thickness_mm),
-            "shadow_factor": _sig(self.shadow_factor),
-            "utilisation": _sig(self.utilisation),
-            "critical_temperature_source": self.critical_temperature_source,
-            "required_minutes": _sig(self.required_minutes),
-            "equivalence": _equivalence_dict(self.equivalence),
-            **({"sizing": _sizing_dict(self.sizing)} if self.sizing is not None else {}),
-        }
+        return member_dicts([self])[0]
 
 
 @dataclass
@@ -208,7 +295,7 @@ class AnalysisResult:
         return {
             "title": self.title,
             "fire": self.fire.to_dict(),
-            "members": [m.to_dict() for m in self.members],
+            "members": member_dicts(self.members),
             "code_values": dict(self.code_values),
             "warnings": list(self.warnings),
             # additions to the contract

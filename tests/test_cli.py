@@ -155,3 +155,18 @@ def test_plant_room_against_independent_calculation():
             peak = max(peak, float(np.max(sol.sol(np.linspace(a, b_, 4000))[0])))
             y0 = [sol.y[0, -1]]
         assert m["peak_steel_temperature_C"] == pytest.approx(peak, abs=2.0), m["name"]
+
+
+def test_cli_restores_the_garbage_collector(capsys):
+    """The CLI runs with the cyclic collector off (steelfire.cli.main) and turns it back on."""
+    import gc
+
+    from steelfire import cli
+
+    assert gc.isenabled()
+    code = cli.main(["check", str(ROOT / "cases" / "warehouse_standard.toml"), "--json"])
+    assert code in (0, 1)
+    assert json.loads(capsys.readouterr().out)["members"]
+    assert gc.isenabled()
+    assert cli.main(["check", str(ROOT / "cases" / "no_such_case.toml")]) == 2
+    assert gc.isenabled()
