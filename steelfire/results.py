@@ -46,8 +46,9 @@ def round_column(values, nd=2) -> list:
     """``[_r(v, nd) for v in values]`` for a whole column at once (None and NaN become None).
 
     numpy rounds as rint(v 10^nd) / 10^nd, which is the double nearest the decimal that Python's
-    ``round`` gives, except where v 10^nd lies within rounding error of a half: those few values are
-    rounded by ``round`` itself, so the column equals the per-value form exactly.
+    ``round`` gives, except where v 10^nd lies within rounding error of a half or is too large to
+    be exact (2**52 and beyond): those few values are rounded by ``round`` itself, so the column
+    equals the per-value form exactly.
     """
     a = np.array([np.nan if v is None else v for v in values], dtype=float)
     scale = 10.0 ** nd
@@ -55,8 +56,10 @@ def round_column(values, nd=2) -> list:
         y = a * scale
         r = np.rint(y) / scale
         near_half = np.abs(y - np.floor(y) - 0.5) < 1e-6
+        # from 2**52 on every double is a whole number: v 10^nd is no longer exact there
+        beyond = np.isfinite(a) & ~(np.abs(y) < 2.0 ** 52)
     out = r.tolist()
-    for i in np.flatnonzero(near_half | (np.isfinite(a) & ~np.isfinite(y))):
+    for i in np.flatnonzero(near_half | beyond):
         out[i] = round(float(a[i]), nd)
     for i in np.flatnonzero(np.isnan(a)):
         out[i] = None

@@ -104,9 +104,10 @@ def equivalence_twin(members, annex_f, cib, equal_time_s, critical_time_s, horiz
 
 
 # ties at the second decimal (2.675 is stored just below the half, 0.125 exactly on it; 0.155 x 100
-# rounds to 15.5, where rint goes up and round goes down), values a
+# rounds to 15.5, where rint goes up and round goes down), values so large that v x 100 is no
+# longer exact (round gives v itself; found by review: a CIB W14 time of 1.6e18 min), values a
 # rounding error away from a half, powers of ten, and values that round up to the next power
-EDGES = [2.675, 0.155, 0.125, 0.375, 1.005, 612.345, 612.355, 99.995, 999.995, 1e-7, 0.0, -0.0, -1.005, -612.345,
+EDGES = [1.5652475842498532e+18, 90075017312368.61, -91154982199665.11, 1e27, -1e26, 2.675, 0.155, 0.125, 0.375, 1.005, 612.345, 612.355, 99.995, 999.995, 1e-7, 0.0, -0.0, -1.005, -612.345,
          1.0, 10.0, 100.0, 1000.0, 1e6, 1e-6, 999999.5, 9999995.0, 123456.5, 0.1234565, 1234565.0,
          0.30000000000000004, 599.9999999999999, 1e22, 1e-22, 5e-324, 1.7976931348623157e308,
          float("inf"), -float("inf"), float("nan"), None]
@@ -122,7 +123,8 @@ def test_sig_column_edges_equal_per_value_form():
     assert results.sig_column(EDGES) == [sig6(v) for v in EDGES]
 
 
-finite = st.floats(allow_nan=False, allow_infinity=False, min_value=-1e9, max_value=1e9)
+finite = st.one_of(st.floats(allow_nan=False, allow_infinity=False, min_value=-1e9, max_value=1e9),
+                   st.floats(allow_nan=False, allow_infinity=False))
 halves = st.builds(lambda k, nd: (k + 0.5) / 10.0 ** nd, st.integers(-10 ** 8, 10 ** 8), st.integers(0, 6))
 near = st.builds(lambda x, u: x + u * math.ulp(x), halves, st.integers(-3, 3))
 values = st.lists(st.one_of(finite, halves, near, st.none(), st.just(float("nan"))), max_size=40)
@@ -223,3 +225,48 @@ def test_large_schedule_document_equals_twin():
     case = dataclasses.replace(copy.copy(base), members=tuple(members))
     res = steelfire.analyse(case, histories=False)
     assert res.to_dict()["members"] == [member_dict_twin(m) for m in res.members]
+
+
+TINY_OPENING_CASE = """\
+title = "tiny opening"
+[compartment]
+floor_area_m2 = 50.0
+height_m = 3.0
+boundary_area_m2 = 200.0
+thermal_inertia = 1000.0
+[[compartment.opening]]
+width_m = 1e-20
+height_m = 1e-6
+[fire_load]
+design_MJ_m2 = 20000.0
+[fire]
+curve = "standard"
+duration_min = 30.0
+[analysis]
+time_step_s = 5.0
+standard_horizon_min = 60.0
+[materials.board]
+density = 800.0
+conductivity = 0.2
+specific_heat = 1700.0
+[[member]]
+name = "P1"
+section_factor_per_m = 150
+utilisation = 0.5
+protection = "board"
+thickness_mm = 20
+required_minutes = 30
+"""
+
+
+def test_huge_equivalence_time_is_written_as_round_gives_it(tmp_path):
+    """A vanishing opening and a large fire load, every value inside its range, give a CIB W14 time
+    of about 1.6e18 min; its JSON number is round(t_e, 2), which is t_e itself (found by review)."""
+    p = tmp_path / "case.toml"
+    p.write_text(TINY_OPENING_CASE)
+    res = steelfire.analyse(steelfire.load_case(p), histories=False)
+    raw = res.members[0].equivalence["cib_w14_min"]
+    assert math.isfinite(raw) and raw > 1e17
+    doc = json.loads(json.dumps(res.to_dict(), allow_nan=False))
+    assert doc["members"][0]["equivalence"]["cib_w14_min"] == round(raw, 2) == raw
+    assert doc["members"] == [member_dict_twin(m) for m in res.members]
