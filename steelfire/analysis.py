@@ -152,12 +152,6 @@ def time_grid(duration_s: float, step_s: float, key_times_s=()) -> np.ndarray:
     return t[keep]
 
 
-def _critical(member, code):
-    if member.critical_temperature_C is not None:
-        return member.critical_temperature_C, "given"
-    return steel.critical_temperature(member.utilisation), "EN 1993-1-2 eq (4.22)"
-
-
 def _critical_all(members):
     """(theta_a,cr [C], source) per member; eq (4.22) evaluated once per distinct utilisation."""
     by_mu = {}
@@ -532,7 +526,7 @@ def size_members(case: Case):
         ts = sizing.ThermalSet(ap_v=arrays[1], rho_p=arrays[3], c_p=arrays[4], lam_T=arrays[5], lam_v=arrays[6],
                                lam_n=arrays[7], moisture_percent=np.array([m.moisture_percent for m in mats]),
                                lam20=np.array([m.conductivity_at_20C for m in mats]))
-        crit = np.array([_critical(m, code)[0] for m in sub])
+        crit = np.array([c[0] for c in _critical_all(sub)])
         req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
         eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
         p = sizing.Problem(ts, crit, req, standard, design, eps_res, code["steel_density_kg_m3"])
