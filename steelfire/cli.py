@@ -153,8 +153,8 @@ def _print(result, args, sizing=False):
         if len(result.members) <= COMPACT_JSON_MEMBERS:
             text = json.dumps(result.to_dict(), indent=2, allow_nan=False)
         else:
-            # a tree just built from plain values: no cycle to look for
-            text = json.dumps(result.to_dict(), separators=(",", ":"), allow_nan=False, check_circular=False)
+            # the member entries written a column at a time, without a dict per member
+            text = result.to_json_compact()
         sys.stdout.write(text)
         sys.stdout.write("\n")
     else:

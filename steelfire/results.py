@@ -6,6 +6,7 @@ Numbers are kept at full precision here; the JSON carries them rounded to what a
 
 from __future__ import annotations
 
+import json
 import math
 from dataclasses import dataclass, field
 
@@ -42,8 +43,10 @@ def _round_tree(v):
     return v
 
 
-def round_column(values, nd=2) -> list:
+def round_column(values, nd=2, as_array=False):
     """``[_r(v, nd) for v in values]`` for a whole column at once (None and NaN become None).
+
+    ``as_array``: the same values as a float array, NaN for None.
 
     numpy rounds as rint(v 10^nd) / 10^nd, which is the double nearest the decimal that Python's
     ``round`` gives, except where v 10^nd lies within rounding error of a half or is too large to
@@ -58,16 +61,23 @@ def round_column(values, nd=2) -> list:
         near_half = np.abs(y - np.floor(y) - 0.5) < 1e-6
         # from 2**52 on every double is a whole number: v 10^nd is no longer exact there
         beyond = np.isfinite(a) & ~(np.abs(y) < 2.0 ** 52)
-    out = r.tolist()
     for i in np.flatnonzero(near_half | beyond):
-        out[i] = round(float(a[i]), nd)
+        r[i] = round(float(a[i]), nd)
+    return r if as_array else _listed(r)
+
+
+def _listed(a) -> list:
+    """A float array as a list of Python floats, None for NaN."""
+    out = a.tolist()
     for i in np.flatnonzero(np.isnan(a)):
         out[i] = None
     return out
 
 
-def sig_column(values, n=6) -> list:
+def sig_column(values, n=6, as_array=False):
     """``[_sig(v, n) for v in values]`` for a whole column at once (n significant figures).
+
+    ``as_array``: the same values as a float array, NaN for None.
 
     Rounded by numpy at the decimal place each value's magnitude gives; values near a half at that
     place, near a power of ten, zero or not finite go through :func:`_sig` itself, so the column
@@ -76,7 +86,7 @@ def sig_column(values, n=6) -> list:
     values = list(values)
     a = np.array([np.nan if v is None else v for v in values], dtype=float)
     if not len(a):
-        return []
+        return a if as_array else []
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         mag = np.abs(a)
         e = np.floor(np.log10(mag))
@@ -92,14 +102,61 @@ def sig_column(values, n=6) -> list:
         exact = (np.isfinite(y) & (mag > 0) & (np.abs(nd) <= 22)
                  & (ya >= 10.0 ** (n - 1)) & (ya < 10.0 ** n - 0.5 - 1e-6)
                  & (np.abs(ya - np.floor(ya) - 0.5) >= 1e-6))
-    out = r.tolist()
     for i in np.flatnonzero(~exact):
-        out[i] = _sig(values[i], n)  # None and NaN become None here
-    return out
+        v = _sig(values[i], n)  # None and NaN become None here
+        r[i] = np.nan if v is None else v
+    return r if as_array else _listed(r)
 
 
 def _column(rows, key):
     return [None if r is None else r[key] for r in rows]
+
+
+def _member_columns(ms) -> dict:
+    """The rounded columns of the member entries: float arrays (NaN for null) for the numbers,
+    lists of Python values for the rest."""
+    peak = round_column([m.peak_steel_temperature_C for m in ms], as_array=True)
+    crit = round_column([m.critical_temperature_C for m in ms], as_array=True)
+    t_std = round_column([m.standard_fire_time_to_critical_min for m in ms], as_array=True)
+    req_raw = [m.required_minutes for m in ms]
+    has_req = np.fromiter((q is not None for q in req_raw), dtype=bool, count=len(ms))
+    req = np.array([np.nan if q is None else q for q in req_raw], dtype=float)
+    meets = (np.isnan(t_std) | (t_std >= req)).tolist()  # NaN t_std: not reached within the horizon
+    eqs = [m.equivalence for m in ms]
+    return {
+        "name": [m.name for m in ms],
+        "kind": [m.kind for m in ms],
+        "peak_steel_temperature_C": peak,
+        "time_of_peak_steel_min": round_column([m.time_of_peak_steel_min for m in ms], as_array=True),
+        "critical_temperature_C": crit,
+        "passes": (peak <= crit).tolist(),
+        "margin_C": round_column([m.critical_temperature_C - m.peak_steel_temperature_C for m in ms],
+                                 as_array=True),
+        "standard_fire_time_to_critical_min": t_std,
+        "meets_required_period": [v if h else None for v, h in zip(meets, has_req.tolist())],
+        # additions to the contract
+        "section_factor_per_m": sig_column([m.section_factor_per_m for m in ms], as_array=True),
+        "protection": [m.protection for m in ms],
+        "thickness_mm": sig_column([m.thickness_mm for m in ms], as_array=True),
+        "shadow_factor": sig_column([m.shadow_factor for m in ms], as_array=True),
+        "utilisation": sig_column([m.utilisation for m in ms], as_array=True),
+        "critical_temperature_source": [m.critical_temperature_source for m in ms],
+        "required_minutes": sig_column(req_raw, as_array=True),
+        "equivalence": eqs,
+        "eq.annex_f_min": round_column(_column(eqs, "annex_f_min"), as_array=True),
+        "eq.cib_w14_min": round_column(_column(eqs, "cib_w14_min"), as_array=True),
+        "eq.equal_temperature_min": round_column(_column(eqs, "equal_temperature_min"), as_array=True),
+        "eq.annex_f_k_c": sig_column(_column(eqs, "annex_f_k_c"), as_array=True),
+        "eq.annex_f_small_compartment_min": round_column(_column(eqs, "annex_f_small_compartment_min"),
+                                                         as_array=True),
+    }
+
+
+#: Keys of a member entry, in document order, up to its equivalence entry.
+_MEMBER_KEYS = ("name", "kind", "peak_steel_temperature_C", "time_of_peak_steel_min", "critical_temperature_C",
+                "passes", "margin_C", "standard_fire_time_to_critical_min", "meets_required_period",
+                "section_factor_per_m", "protection", "thickness_mm", "shadow_factor", "utilisation",
+                "critical_temperature_source", "required_minutes")
 
 
 def member_dicts(members) -> list:
@@ -108,60 +165,96 @@ def member_dicts(members) -> list:
     One place for the member entries of the result document: :meth:`MemberResult.to_dict` calls it
     with one member. Columns are rounded with numpy (:func:`round_column`, :func:`sig_column`), so a
     schedule of many thousand members costs little beside its heat-transfer kernels.
+    :func:`members_json_compact` writes the same entries straight to JSON text.
     """
     ms = list(members)
     if not ms:
         return []
-    peak = round_column([m.peak_steel_temperature_C for m in ms])
-    crit = round_column([m.critical_temperature_C for m in ms])
-    margin = round_column([m.critical_temperature_C - m.peak_steel_temperature_C for m in ms])
-    t_peak = round_column([m.time_of_peak_steel_min for m in ms])
-    t_std = round_column([m.standard_fire_time_to_critical_min for m in ms])
-    req_raw = [m.required_minutes for m in ms]
-    passes = [p <= c for p, c in zip(peak, crit)]
-    meets = [None if q is None else (t is None or t >= q) for q, t in zip(req_raw, t_std)]
-    sf = sig_column([m.section_factor_per_m for m in ms])
-    thick = sig_column([m.thickness_mm for m in ms])
-    ksh = sig_column([m.shadow_factor for m in ms])
-    mu = sig_column([m.utilisation for m in ms])
-    req = sig_column(req_raw)
-    eqs = [m.equivalence for m in ms]
-    eq_a = round_column(_column(eqs, "annex_f_min"))
-    eq_w = round_column(_column(eqs, "cib_w14_min"))
-    eq_d = round_column(_column(eqs, "equal_temperature_min"))
-    eq_kc = sig_column(_column(eqs, "annex_f_k_c"))
-    eq_small = round_column(_column(eqs, "annex_f_small_compartment_min"))
+    c = {k: _listed(v) if isinstance(v, np.ndarray) else v for k, v in _member_columns(ms).items()}
+    cols = [c[k] for k in _MEMBER_KEYS]
+    eq_a, eq_w, eq_d = c["eq.annex_f_min"], c["eq.cib_w14_min"], c["eq.equal_temperature_min"]
+    eq_kc, eq_small = c["eq.annex_f_k_c"], c["eq.annex_f_small_compartment_min"]
     out = []
-    for i, m in enumerate(ms):
-        e = eqs[i]
-        d = {
-            "name": m.name,
-            "kind": m.kind,
-            "peak_steel_temperature_C": peak[i],
-            "time_of_peak_steel_min": t_peak[i],
-            "critical_temperature_C": crit[i],
-            "passes": passes[i],
-            "margin_C": margin[i],
-            "standard_fire_time_to_critical_min": t_std[i],
-            "meets_required_period": meets[i],
-            # additions to the contract
-            "section_factor_per_m": sf[i],
-            "protection": m.protection,
-            "thickness_mm": thick[i],
-            "shadow_factor": ksh[i],
-            "utilisation": mu[i],
-            "critical_temperature_source": m.critical_temperature_source,
-            "required_minutes": req[i],
-            "equivalence": None if e is None else {
-                "annex_f_min": eq_a[i], "cib_w14_min": eq_w[i], "equal_temperature_min": eq_d[i],
-                "unconservative": list(e["unconservative"]), "resists": dict(e["resists"]),
-                "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
-                "annex_f_k_c": eq_kc[i], "annex_f_small_compartment_min": eq_small[i]},
-        }
+    for i, (m, e) in enumerate(zip(ms, c["equivalence"])):
+        d = {k: col[i] for k, col in zip(_MEMBER_KEYS, cols)}
+        d["equivalence"] = None if e is None else {
+            "annex_f_min": eq_a[i], "cib_w14_min": eq_w[i], "equal_temperature_min": eq_d[i],
+            "unconservative": list(e["unconservative"]), "resists": dict(e["resists"]),
+            "meets_required": None if e["meets_required"] is None else dict(e["meets_required"]),
+            "annex_f_k_c": eq_kc[i], "annex_f_small_compartment_min": eq_small[i]}
         if m.sizing is not None:
             d["sizing"] = _sizing_dict(m.sizing)
         out.append(d)
     return out
+
+
+#: Number columns of a member entry rounded to six significant figures (the others to 0.01).
+_SIG6_KEYS = ("section_factor_per_m", "thickness_mm", "shadow_factor", "utilisation", "required_minutes",
+              "eq.annex_f_k_c")
+
+
+#: String columns of a member entry.
+_TEXT_KEYS = ("name", "kind", "protection", "critical_temperature_source")
+
+
+def members_json_compact(members) -> str:
+    """``json.dumps(member_dicts(members), separators=(",", ":"), allow_nan=False)``, without the dicts.
+
+    The member entries of a large schedule written straight from the rounded columns by
+    :func:`steelfire.jsontext.objects_json` (a numba kernel writes keys and numbers; strings go
+    through the json module's own escaper, the small dicts of equivalence verdicts through
+    ``json.dumps``, memoised by value), so the text is the one ``json.dumps`` writes, character for
+    character (tests/test_jsontext.py). Members with a sizing entry, and any value the kernel cannot
+    vouch for, go through ``json.dumps``.
+    """
+    from .jsontext import Numbers, objects_json
+
+    ms = list(members)
+    compact = {"separators": (",", ":"), "allow_nan": False}
+    if not ms or any(m.sizing is not None for m in ms):
+        return json.dumps(member_dicts(ms), **compact)
+    c = _member_columns(ms)
+    esc = json.encoder.encode_basestring_ascii
+    cols = {}
+    for k in _MEMBER_KEYS:
+        col = c[k]
+        if k in _TEXT_KEYS:
+            if not all(v is None or type(v) is str for v in col):
+                return json.dumps(member_dicts(ms), **compact)
+            cols[k] = ["null" if v is None else esc(v) for v in col]
+        elif k in ("passes", "meets_required_period"):
+            cols[k] = ["null" if v is None else ("true" if v else "false") for v in col]
+        else:
+            cols[k] = Numbers(col, sig=6 if k in _SIG6_KEYS else 0)
+    eqs = c["equivalence"]
+    has_eq = [i for i, e in enumerate(eqs) if e is not None]
+    verdicts = {}  # the unconservative/resists/meets_required part of an entry, by value
+
+    def verdict_text(e):
+        key = (tuple(e["unconservative"]), tuple(e["resists"].items()),
+               None if e["meets_required"] is None else tuple(e["meets_required"].items()))
+        t = verdicts.get(key)
+        if t is None:
+            part = {"unconservative": list(e["unconservative"]), "resists": dict(e["resists"]),
+                    "meets_required": None if e["meets_required"] is None else dict(e["meets_required"])}
+            t = verdicts[key] = json.dumps(part, **compact)[1:-1]
+        return t
+
+    eq_cols = {k: Numbers(c["eq." + k][has_eq]) for k in ("annex_f_min", "cib_w14_min", "equal_temperature_min")}
+    # the value of "unconservative" carries "resists" and "meets_required" after it, keys included
+    eq_cols["unconservative"] = [verdict_text(eqs[i])[len('"unconservative":'):] for i in has_eq]
+    eq_cols["annex_f_k_c"] = Numbers(c["eq.annex_f_k_c"][has_eq], sig=6)
+    eq_cols["annex_f_small_compartment_min"] = Numbers(c["eq.annex_f_small_compartment_min"][has_eq])
+    eq_text = objects_json(eq_cols, row_separator="\n") if has_eq else ""
+    if eq_text is None:
+        return json.dumps(member_dicts(ms), **compact)
+    cols["equivalence"] = ["null"] * len(ms)
+    for i, t in zip(has_eq, eq_text.split("\n")):
+        cols["equivalence"][i] = t
+    text = objects_json(cols)
+    if text is None:
+        return json.dumps(member_dicts(ms), **compact)
+    return "[" + text + "]"
 
 
 def _sizing_dict(s):
@@ -293,12 +386,28 @@ class AnalysisResult:
         return all(m.ok for m in self.members)
 
     def to_dict(self) -> dict:
+        return self._document(member_dicts(self.members))
+
+    def to_json_compact(self) -> str:
+        """``json.dumps(self.to_dict(), separators=(",", ":"), allow_nan=False)``, members written by column.
+
+        The member entries come from :func:`members_json_compact` (no dict per member); the rest of
+        the document goes through ``json.dumps``. Same text, character for character.
+        """
+        compact = {"separators": (",", ":"), "allow_nan": False}
+        parts = []
+        for key, value in self._document(None).items():
+            text = members_json_compact(self.members) if key == "members" else json.dumps(value, **compact)
+            parts.append(json.dumps(key) + ":" + text)
+        return "{" + ",".join(parts) + "}"
+
+    def _document(self, members) -> dict:
         from . import __version__
 
         return {
             "title": self.title,
             "fire": self.fire.to_dict(),
-            "members": member_dicts(self.members),
+            "members": members,
             "code_values": dict(self.code_values),
             "warnings": list(self.warnings),
             # additions to the contract
