@@ -149,29 +149,76 @@ def kernel_figures(repeats):
               f"({ns_py / med[th]:5.1f}x twin; range {min(figs[th]):.1f}-{max(figs[th]):.1f})")
     if 2 in med:
         print(f"  two threads / one thread    {med[1] / med[2]:8.2f}x")
-    floor = hardware_floor_ns()
-    print(f"  estimated floor, one core   {floor:8.1f} ns/member-step   (throughput of the operation count; "
-          f"batch 1 thread is {med[1] / floor:.1f}x it)")
+    rates = machine_rates()
+    floor = hardware_floor_ns(rates)
+    print(f"  estimated floor, one core   {floor:8.2f} ns/member-step   ({MIX_OPS:.0f} vector operations and "
+          f"{DIVISIONS} division per member-step at this core's measured {rates[0]:.0f} multiply-add lane-ops "
+          f"and {rates[1]:.1f} divisions per ns; batch 1 thread is {med[1] / floor:.1f}x it)")
     print(f"  estimated one-chain latency {latency_chain_ns():8.1f} ns/member-step   (what the scalar kernel "
           f"can reach; it is at {ns_sc / latency_chain_ns():.1f}x)")
     return med
 
 
-#: Operation count of one protected member-step of the batch kernel (see benchmarks/README.md).
-LANE_OPS = 70          # add/mul/FMA/compare/blend operations per member-step, divisions excluded
-DIVISIONS = 2          # c_a's 600-900 C branch and eq (4.27)'s combined denominator
-LANES = 4              # doubles per 256-bit data path (AVX-512 instructions run as 2 x 256 bits on Zen 4)
-PORTS = 4              # floating-point pipes: 2 multiply/FMA + 2 add
-DIV_CYCLES_PER_LANE = 1.25   # vdivpd ymm: about one per 5 cycles for 4 doubles
+#: Vector arithmetic per member-step of the batch kernels (adds, multiplies, compares, selects, max;
+#: divisions apart), counted in the compiled member loops of the time loop (zmm instructions per 8
+#: members; numba's inspect_asm with an empty cache): bare steel, and protected steel with one
+#: conductivity value (4 passes: lambda, c_a and the division, e^(phi/10) - 1, the increment and
+#: its rules, peak and crossing). A conductivity table adds about 5 per knot; moisture about 2.
+BARE_OPS, PROTECTED_OPS, KNOT_OPS, DIVISIONS = 36, 90, 5, 1
+#: The benchmark's members (``members``): a quarter each bare, constant, tabulated (4 knots),
+#: constant with moisture.
+MIX_OPS = (BARE_OPS + PROTECTED_OPS + (PROTECTED_OPS + 3 * KNOT_OPS) + (PROTECTED_OPS + 2)) / 4.0
 
 
-def hardware_floor_ns(ghz=None):
-    """Throughput floor of one member-step on one core: LANE_OPS / (LANES x PORTS) cycles for the
-    arithmetic plus DIVISIONS x DIV_CYCLES_PER_LANE for the divisions (about 6.9 cycles)."""
-    if ghz is None:
-        ghz = cpu_ghz()
-    cycles = LANE_OPS / (LANES * PORTS) + DIVISIONS * DIV_CYCLES_PER_LANE
-    return cycles / ghz
+#: Doubles the rate loops work on: a compile-time width, so that the compiler keeps them in registers.
+RATE_WIDTH = 128
+
+
+@numba.njit(error_model="numpy")
+def _mul_add_loop(a, reps):
+    for _ in range(reps):
+        for i in range(RATE_WIDTH):
+            a[i] = a[i] * 0.9999999 + 1e-7
+    return a
+
+
+@numba.njit(error_model="numpy")
+def _divide_loop(a, reps):
+    for _ in range(reps):
+        for i in range(RATE_WIDTH):
+            a[i] = 1.0000001 / a[i]
+    return a
+
+
+def machine_rates(reps=200_000):
+    """What one core does per ns, measured: (multiply-add lane-ops, divisions).
+
+    Small numba loops over 128 doubles (held in vector registers), 128 independent chains,
+    vectorised as the batch kernels are (no fast-math): ``a = a * c + d`` counts two operations per
+    element, ``a = c / a`` one division. Best of five, one thread: the arithmetic peak of the core,
+    not counting the loads and stores a real kernel also makes.
+    """
+    threads0 = numba.get_num_threads()
+    numba.set_num_threads(1)
+    out = []
+    for fn, ops in ((_mul_add_loop, 2), (_divide_loop, 1)):
+        a = np.linspace(1.0, 2.0, RATE_WIDTH)
+        fn(a, 10)
+        best = math.inf
+        for _ in range(5):
+            t0 = time.perf_counter()
+            fn(a, reps)
+            best = min(best, time.perf_counter() - t0)
+        out.append(ops * RATE_WIDTH * reps / best / 1e9)
+    numba.set_num_threads(threads0)
+    return tuple(out)
+
+
+def hardware_floor_ns(rates=None, ops=None):
+    """Throughput floor of one member-step on one core [ns]: its vector arithmetic at the measured
+    multiply-add rate plus its division at the measured division rate (see ``machine_rates``)."""
+    mul_add, div = machine_rates() if rates is None else rates
+    return (MIX_OPS if ops is None else ops) / mul_add + DIVISIONS / div
 
 
 def latency_chain_ns(ghz=None):

@@ -128,30 +128,43 @@ CHUNK = 256
 
 @nb.njit(cache=True, inline="always", error_model="numpy")
 def expm1_scaled(y):
-    """e^y - 1 by a degree-9 Taylor polynomial of e^(y/64) - 1 and six squarings ((1+p)^2 - 1 = p (2 + p)).
+    """e^y - 1 by a degree-11 Taylor polynomial of e^(y/16) - 1 and four squarings ((1+p)^2 - 1 = p (2 + p)).
 
     A vectorisable stand-in for math.expm1 on 0 <= y <= 3 (phi <= 30 in eq (4.27)): relative error
-    below 1e-12 there (tests/test_heat.py checks it against math.expm1), a few 1e-10 up to y = 10.
+    below 1e-12 there (tests/test_heat.py checks it against math.expm1), below 1e-10 up to y = 10.
+    The polynomial is evaluated in Estrin's form (pairs of terms, then powers z^2, z^4, z^8), so
+    its chain of dependent operations is short: the batch kernels are bound by such chains.
     """
-    z = y * (1.0 / 64.0)
-    p = z * (1.0 + z * (0.5 + z * (1.0 / 6.0 + z * (1.0 / 24.0 + z * (1.0 / 120.0 + z * (
-        1.0 / 720.0 + z * (1.0 / 5040.0 + z * (1.0 / 40320.0 + z * (1.0 / 362880.0)))))))))
-    for _ in range(6):
+    z = y * (1.0 / 16.0)
+    z2 = z * z
+    z4 = z2 * z2
+    z8 = z4 * z4
+    a0 = 1.0 + 0.5 * z
+    a1 = (1.0 / 6.0) + (1.0 / 24.0) * z
+    a2 = (1.0 / 120.0) + (1.0 / 720.0) * z
+    a3 = (1.0 / 5040.0) + (1.0 / 40320.0) * z
+    a4 = (1.0 / 362880.0) + (1.0 / 3628800.0) * z + (1.0 / 39916800.0) * z2
+    p = z * ((a0 + a1 * z2) + (a2 + a3 * z2) * z4 + a4 * z8)
+    for _ in range(4):
         p = p * (2.0 + p)
     return p
 
 
 @nb.njit(cache=True, inline="always", error_model="numpy")
-def specific_heat_select(x):
-    """c_a of EN 1993-1-2 eq (3.2a)-(3.2d) with selects instead of branches (one division)."""
+def heat_capacity_fraction(x, rho_a):
+    """c_a rho_a of EN 1993-1-2 eq (3.2a)-(3.2d) at ``x`` [C] as a fraction num / den [J/(m3 K)], selects only.
+
+    den is 1 outside 600-900 C and (738 - x) or (x - 731) inside, so that a kernel can fold c_a's
+    division into its own single one.
+    """
     t20 = max(x, 20.0)
     cubic = 425.0 + t20 * (0.773 + t20 * (-1.69e-3 + t20 * 2.22e-6))
     below = x < 735.0
-    den = (738.0 - x) if below else (x - 731.0)
-    num = 13002.0 if below else 17820.0
-    base = 666.0 if below else 545.0
-    frac = base + num / den
-    return cubic if x < 600.0 else (frac if x < 900.0 else 650.0)
+    den_f = (738.0 - x) if below else (x - 731.0)
+    num_f = (666.0 * den_f + 13002.0) if below else (545.0 * den_f + 17820.0)
+    inside = x >= 600.0 and x < 900.0
+    num = rho_a * (num_f if inside else (cubic if x < 600.0 else 650.0))
+    return num, (den_f if inside else 1.0)
 
 
 @nb.njit(cache=True, inline="always")
@@ -217,6 +230,10 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
         thr = np.empty(w)
         dly = np.empty(w)
         lamj = np.empty(w)
+        phi10 = np.empty(w)         # phi / 10 of eq (4.27)
+        flow = np.empty(w)          # the conduction term of eq (4.27) [C]
+        ex = np.empty(w)            # e^(phi/10) - 1
+        prev = np.empty(w)          # temperature at the start of the step
         tk = np.empty((n_k, w))      # conductivity table: knot temperatures (+inf past the last knot)
         vk = np.empty((n_k, w))      # value at the knot
         sk = np.empty((n_k, w))      # slope after the knot (0 past the last knot: end value held)
@@ -255,14 +272,23 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
                     x = th[j]
                     cand = vk[k, j] + sk[k, j] * (x - tk[k, j])
                     lamj[j] = cand if x > tk[k, j] else lamj[j]
+            # eq (4.27) in four passes over the chunk: each pass is a short chain per member, so the
+            # processor keeps many members in flight (one long pass is bound by its chain's latency).
+            # With c_a rho_a = num / den: phi = c_p rho_p d_p (Ap/V) den / num and
+            # 1 / (c_a rho_a (1 + phi/3)) = den / (num + den c_p rho_p d_p (Ap/V) / 3): one division
+            # r = 1 / (num (num + den cap/3)) gives both.
             for j in range(w):
                 x = th[j]
-                lam = lamj[j]
-                ca_rho = specific_heat_select(x) * rho_a
-                s = ca_rho + cap3[j]                    # c_a rho_a (1 + phi/3)
-                r = 1.0 / (ca_rho * s)
-                phi = cap[j] * s * r
-                d = lam * k_[j] * (g - x) * dt * ca_rho * r - expm1_scaled(phi * 0.1) * dg
+                num, den = heat_capacity_fraction(x, rho_a)
+                s = num + cap3[j] * den
+                r = 1.0 / (num * s)
+                phi10[j] = 0.1 * cap[j] * den * s * r
+                flow[j] = lamj[j] * k_[j] * (g - x) * dt * den * num * r
+            for j in range(w):
+                ex[j] = expm1_scaled(phi10[j])
+            for j in range(w):
+                x = th[j]
+                d = flow[j] - ex[j] * dg
                 d = 0.0 if (rising and d < 0.0) else d
                 new = x + d
                 # moisture: hold at 100 C until the delay is used up
@@ -270,15 +296,18 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
                 at = x >= MOISTURE_PLATEAU_C
                 held[j] = held[j] + dt if (hold and at) else held[j]
                 new = (x if at else MOISTURE_PLATEAU_C) if hold else new
+                prev[j] = x
+                dl[j] = new - x
+                th[j] = new
+            for j in range(w):
+                new = th[j]
                 f = (new >= thr[j]) and (ci[j] == -1)
                 ci[j] = i if f else ci[j]
-                cx[j] = x if f else cx[j]
+                cx[j] = prev[j] if f else cx[j]
                 cn[j] = new if f else cn[j]
                 up = new > pk[j]
                 pk[j] = new if up else pk[j]
                 pki[j] = i + 1 if up else pki[j]
-                dl[j] = new - x
-                th[j] = new
             q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
         _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
     return peak, peak_t, cross, at_q, last, hist
@@ -314,7 +343,8 @@ def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, q
                 ta = x + KELVIN
                 ta2 = ta * ta
                 h_net = alpha_c * (g - x) + er * (tg4 - ta2 * ta2)
-                new = x + kk[j] * h_net * dt / (specific_heat_select(x) * rho_a)
+                num, den = heat_capacity_fraction(x, rho_a)  # c_a rho_a = num / den: one division
+                new = x + kk[j] * h_net * dt * den / num
                 f = (new >= thr[j]) and (ci[j] == -1)
                 ci[j] = i if f else ci[j]
                 cx[j] = x if f else cx[j]

@@ -294,3 +294,17 @@ def test_expm1_scaled_matches_math_expm1():
         assert got == pytest.approx(ref, rel=1e-12, abs=1e-300)
     for y in np.linspace(3.0, 10.0, 71):
         assert heat.expm1_scaled(float(y)) == pytest.approx(math.expm1(y), rel=1e-9)
+
+
+def test_heat_capacity_fraction_is_eq_3_2_times_density():
+    # the batch kernels' c_a rho_a = num / den against EN 1993-1-2 eq (3.2a)-(3.2d) (steelfire.steel,
+    # written out from the clause), across the branches and at their ends, 20 C clamp included
+    from steelfire import steel
+
+    xs = np.concatenate([np.linspace(-50.0, 1300.0, 2701), [20.0, 599.999999, 600.0, 734.999999, 735.0, 737.9,
+                                                            731.1, 899.999999, 900.0, 1200.0]])
+    for x in xs:
+        num, den = heat.heat_capacity_fraction(float(x), RHO_A)
+        want = steel.specific_heat(min(x, 1200.0)) * RHO_A
+        assert num / den == pytest.approx(want, rel=1e-13), x
+        assert den == 1.0 or 600.0 <= x < 900.0
