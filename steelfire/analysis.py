@@ -227,6 +227,55 @@ def thermal_arrays(case: Case, members, thickness_scale=1.0, nominal_fire=False)
     return MemberColumns(case, members).arrays(thickness_scale, nominal_fire)
 
 
+def bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a) -> float:
+    """Largest k_sh Am/V [1/m] for which eq (4.25) of EN 1993-1-2, stepped explicitly on ``time_s``,
+    cannot carry bare steel past the gas temperature in one step.
+
+    One step moves the steel by a (theta_g - theta_a) with
+    a = k_sh (Am/V) dt (alpha_c + Phi eps sigma (T_g + T_a)(T_g^2 + T_a^2)) / (c_a(theta_a) rho_a)
+    (h_net,d of EN 1991-1-2 eq (3.1)-(3.3) divided by theta_g - theta_a; T in K). With both
+    temperatures within [20 C, the fire's hottest gas] a is largest at the hottest gas; the limit is
+    the k_sh Am/V that makes its largest value 1 at the largest step (beyond 1 the history
+    overshoots the gas, beyond 2 it diverges). c_a by EN 1993-1-2 eq (3.2), on a 1 C grid with the
+    branch ends.
+    """
+    top = max(float(np.max(gas_C)), 20.0)
+    theta = np.unique(np.concatenate([np.arange(20.0, top, 1.0), [600.0, 735.0, 900.0, top]]))
+    theta = theta[theta <= top]
+    t_a, t_g = theta + heat.KELVIN, top + heat.KELVIN
+    h = alpha_c + eps_res * heat.STEFAN_BOLTZMANN * (t_g + t_a) * (t_g ** 2 + t_a ** 2)
+    worst = float(np.max(h / (steel.specific_heat(theta) * rho_a)))
+    dt = float(np.max(np.diff(time_s))) if len(time_s) > 1 else 0.0
+    return math.inf if dt <= 0.0 else 1.0 / (dt * worst)
+
+
+def check_bare_step(case, members, cols, fires):
+    """Refuse bare members for which eq (4.25), stepped explicitly, overshoots the gas in one step.
+
+    ``fires``: (time_s, gas_C, alpha_c, nominal) of each fire the members run in; ``nominal`` picks
+    the shadow factor of eq (4.26a). The limit (:func:`bare_step_limit_per_m`) is far beyond real
+    sections at the clause's 5 s step; code values ([code]) and longer steps can bring it within reach.
+    """
+    if not np.any(cols.bare):
+        return
+    code = case.code
+    eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
+    rho_a = code["steel_density_kg_m3"]
+    for time_s, gas_C, alpha_c, nominal_fire in fires:
+        limit = bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a)
+        bare, amv = cols.arrays(nominal_fire=nominal_fire)[:2]
+        over = np.flatnonzero(bare & (amv >= limit))
+        if len(over):
+            i = int(over[0])
+            m = members[i]
+            raise InputError(
+                f"member[{i + 1}] ({m.name}).section_factor_per_m", m.section_factor_per_m,
+                f"too large for the time step {float(np.max(np.diff(time_s))):g} s: eq (4.25) of EN 1993-1-2, "
+                f"stepped explicitly, passes the gas temperature in one step unless k_sh Am/V < {limit:.4g} 1/m "
+                f"here (alpha_c = {alpha_c:g} W/(m2 K), steel_density_kg_m3 = {rho_a:g}, gas up to "
+                f"{float(np.max(gas_C)):.0f} C); give a smaller time step")
+
+
 def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
                 thickness_scale=1.0, nominal_fire=False, arrays=None):
     """Batch kernel over ``members`` on one fire (or over prepared ``arrays``); returns the kernel's tuple."""
@@ -266,14 +315,16 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     thresholds = np.array([c[0] for c in crit])
     nominal_design = case.fire.curve in NOMINAL_CURVES
     cols = MemberColumns(case, members)
+    ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
+    gs = nominal.standard_fire(ts)
+    check_bare_step(case, members, cols, [(t, g, fire.alpha_c, nominal_design),
+                                          (ts, gs, code["alpha_c_standard"], True)])
     peak, peak_t, _, _, last, hist = run_members(case, None, t, g, fire.alpha_c, thresholds,
                                                  keep_history=histories,
                                                  arrays=cols.arrays(nominal_fire=nominal_design))
     # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
     # and for the equal-steel-temperature equivalence: when the same member reaches its design-fire
     # peak under the standard fire (the members run twice in one batch, one threshold each)
-    ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
-    gs = nominal.standard_fire(ts)
     n = len(members)
     std_arrays = tuple(np.concatenate([a, a]) for a in cols.arrays(nominal_fire=True))
     _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],

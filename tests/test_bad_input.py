@@ -720,6 +720,24 @@ def test_time_step(tmp_path, base, file_step, option, field, value, allowed):
     assert_refused(path, field, value, allowed, extra=extra)
 
 
+BARE_STEP = [
+    # code values within their own ranges that make explicit eq (4.25) overshoot the gas in one step
+    # (before this refusal: a bare member at 57,537 C); the same member at the EN values runs
+    P("nominal", [(("code",), {"steel_density_kg_m3": 1000.0, "alpha_c_standard": 500.0}),
+                  (M1 + ("section_factor_per_m",), 1000.0)], "T1).section_factor_per_m", 1000.0,
+      ("too large for the time step", "k_sh Am/V <"), id="light-steel-strong-convection"),
+    P("nominal", [(("code",), {"max_time_step_bare_s": 60.0}), (("analysis", "time_step_s"), 60.0),
+                  (M1 + ("section_factor_per_m",), 900.0)], "T1).section_factor_per_m", 900.0,
+      ("too large for the time step 60 s", "smaller time step"), id="long-step"),
+]
+
+
+@pytest.mark.parametrize(CASE_ARGS, BARE_STEP)
+def test_bare_steel_step_that_overshoots_the_gas(tmp_path, base, changes, field, value, allowed):
+    modes = MODES if changes[0][1].get("max_time_step_bare_s") is None else {"plain": (), "json": ("--json",)}
+    refuse(tmp_path, base, changes, field, value, allowed, modes=modes)
+
+
 # ----------------------------------------------------------------------------------------------
 # absurd sizes
 

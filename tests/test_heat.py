@@ -308,3 +308,31 @@ def test_heat_capacity_fraction_is_eq_3_2_times_density():
         want = steel.specific_heat(min(x, 1200.0)) * RHO_A
         assert num / den == pytest.approx(want, rel=1e-13), x
         assert den == 1.0 or 600.0 <= x < 900.0
+
+
+def test_bare_step_limit_hand_calculation():
+    # gas held at 1000 C, alpha_c = 25, Phi eps_m eps_f = 0.7, rho_a = 7850, dt = 5 s. Worst at
+    # theta_a = theta_g = 1000 C (T = 1273 K, the 273 of EN 1991-1-2 eq (3.3)): 4 x 0.7 x 5.67e-8 x 1273^3 = 327.5,
+    # + 25 = 352.5 W/(m2 K); c_a = 650 (EN 1993-1-2 eq (3.2d)); k_sh Am/V = 7850 x 650 / (5 x 352.5)
+    # = 2895 1/m. (At 20 C: (25 + 0.7 x 5.67e-8 x 1566 x 1706378) / 439.8 = 0.298 < 352.5 / 650 = 0.542.)
+    from steelfire.analysis import bare_step_limit_per_m
+
+    t = np.arange(0.0, 601.0, 5.0)
+    g = np.full_like(t, 1000.0)
+    assert bare_step_limit_per_m(t, g, 25.0, EPS, RHO_A) == pytest.approx(2895.0, rel=2e-3)
+
+
+@pytest.mark.parametrize("alpha_c, rho_a, dt", [(25.0, 7850.0, 5.0), (500.0, 1000.0, 5.0), (35.0, 7850.0, 60.0)])
+def test_bare_step_limit_separates_monotone_from_overshooting_histories(alpha_c, rho_a, dt):
+    """Below the limit the explicit eq (4.25) never passes the gas (it approaches 1000 C from below);
+    at three times it, the first steps already jump past the gas."""
+    from steelfire.analysis import bare_step_limit_per_m
+
+    t = np.arange(0.0, 3600.0 + dt / 2, dt)
+    g = np.full_like(t, 1000.0)
+    g[0] = 20.0
+    limit = bare_step_limit_per_m(t, g, alpha_c, EPS, rho_a)
+    below = heat.bare_history(t, g, 0.999 * limit, alpha_c, EPS, rho_a)
+    assert np.all(np.diff(below) >= -1e-9) and below.max() <= 1000.0 + 1e-9
+    above = heat.bare_history(t, g, 3.0 * limit, alpha_c, EPS, rho_a)
+    assert np.nanmax(above[:10]) > 1000.0 + 1.0  # (and then diverges)
