@@ -116,6 +116,7 @@ def kernel_figures(repeats):
     batch()
     threads = sorted({1, min(2, numba.config.NUMBA_NUM_THREADS)})
     figs = {"twin": [], "scalar": [], 1: [], 2: []}
+    best = {}  # fastest single call per thread count
     threads0 = numba.get_num_threads()
     for _ in range(max(3, repeats)):
         t0 = time.perf_counter()
@@ -137,6 +138,7 @@ def kernel_figures(repeats):
                 batch()
                 runs.append((time.perf_counter() - t0) / (n * steps) * 1e9)
             figs[th].append(statistics.median(runs))
+            best[th] = min(best.get(th, math.inf), min(runs))
     numba.set_num_threads(threads0)
     med = {k: statistics.median(v) for k, v in figs.items() if v}
     ns_py, ns_sc = med["twin"], med["scalar"]
@@ -148,7 +150,10 @@ def kernel_figures(repeats):
         print(f"  batch kernel, {th} thread{'s' if th > 1 else ' '}      {med[th]:8.1f} ns/member-step   "
               f"({ns_py / med[th]:5.1f}x twin; range {min(figs[th]):.1f}-{max(figs[th]):.1f})")
     if 2 in med:
-        print(f"  two threads / one thread    {med[1] / med[2]:8.2f}x")
+        # the second core of a virtual machine is not always wholly ours: the medians carry that,
+        # the fastest calls show what the two cores do when both run
+        print(f"  two threads / one thread    {med[1] / med[2]:8.2f}x   (medians; fastest calls "
+              f"{best[1]:.2f} / {best[2]:.2f} ns: {best[1] / best[2]:.2f}x)")
     rates = machine_rates()
     floor = hardware_floor_ns(rates)
     print(f"  estimated floor, one core   {floor:8.2f} ns/member-step   ({MIX_OPS:.0f} vector operations and "
