@@ -252,8 +252,8 @@ def bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a) -> float:
 def check_bare_step(case, members, cols, fires):
     """Refuse bare members for which eq (4.25), stepped explicitly, overshoots the gas in one step.
 
-    ``fires``: (time_s, gas_C, alpha_c, nominal) of each fire the members run in; ``nominal`` picks
-    the shadow factor of eq (4.26a). The limit (:func:`bare_step_limit_per_m`) is far beyond real
+    ``fires``: (time_s, gas_C, alpha_c, nominal, label) of each fire the members run in; ``nominal``
+    picks the shadow factor of eq (4.26a), ``label`` names the fire in the message. The limit (:func:`bare_step_limit_per_m`) is far beyond real
     sections at the clause's 5 s step; code values ([code]) and longer steps can bring it within reach.
     """
     if not np.any(cols.bare):
@@ -261,19 +261,21 @@ def check_bare_step(case, members, cols, fires):
     code = case.code
     eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
     rho_a = code["steel_density_kg_m3"]
-    for time_s, gas_C, alpha_c, nominal_fire in fires:
+    for time_s, gas_C, alpha_c, nominal_fire, label in fires:
         limit = bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a)
         bare, amv = cols.arrays(nominal_fire=nominal_fire)[:2]
         over = np.flatnonzero(bare & (amv >= limit))
         if len(over):
             i = int(over[0])
             m = members[i]
+            k_sh = amv[i] / m.section_factor_per_m
             raise InputError(
                 f"member[{i + 1}] ({m.name}).section_factor_per_m", m.section_factor_per_m,
-                f"too large for the time step {float(np.max(np.diff(time_s))):g} s: eq (4.25) of EN 1993-1-2, "
-                f"stepped explicitly, passes the gas temperature in one step unless k_sh Am/V < {limit:.4g} 1/m "
-                f"here (alpha_c = {alpha_c:g} W/(m2 K), steel_density_kg_m3 = {rho_a:g}, gas up to "
-                f"{float(np.max(gas_C)):.0f} C); give a smaller time step")
+                f"too large for the time step {float(np.max(np.diff(time_s))):g} s: in the {label}, eq (4.25) of "
+                f"EN 1993-1-2 stepped explicitly passes the gas temperature in one step unless k_sh Am/V < "
+                f"{limit:.4g} 1/m (here k_sh = {k_sh:.3g}; alpha_c = {alpha_c:g} W/(m2 K), "
+                f"code.steel_density_kg_m3 = {rho_a:g}, gas up to {float(np.max(gas_C)):.0f} C); give a smaller "
+                "time step, or check the [code] values")
 
 
 def run_members(case, members, time_s, gas_C, alpha_c, thresholds, query_idx=None, keep_history=False,
@@ -317,8 +319,9 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     cols = MemberColumns(case, members)
     ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
     gs = nominal.standard_fire(ts)
-    check_bare_step(case, members, cols, [(t, g, fire.alpha_c, nominal_design),
-                                          (ts, gs, code["alpha_c_standard"], True)])
+    check_bare_step(case, members, cols, [(t, g, fire.alpha_c, nominal_design, "design fire"),
+                                          (ts, gs, code["alpha_c_standard"], True,
+                                           "standard fire of the times to critical")])
     peak, peak_t, _, _, last, hist = run_members(case, None, t, g, fire.alpha_c, thresholds,
                                                  keep_history=histories,
                                                  arrays=cols.arrays(nominal_fire=nominal_design))

@@ -231,13 +231,19 @@ def members_json_compact(members) -> str:
     verdicts = {}  # the unconservative/resists/meets_required part of an entry, by value
 
     def verdict_text(e):
-        key = (tuple(e["unconservative"]), tuple(e["resists"].items()),
-               None if e["meets_required"] is None else tuple(e["meets_required"].items()))
-        t = verdicts.get(key)
+        uncons, resists, meets = e["unconservative"], e["resists"], e["meets_required"]
+        # memoised only for plain str routes and bool verdicts: 1 == True == numpy.True_ as keys,
+        # but json.dumps writes them differently (found by review)
+        plain = (all(type(r) is str for r in uncons) and all(type(v) is bool for v in resists.values())
+                 and (meets is None or all(type(v) is bool for v in meets.values())))
+        key = (tuple(uncons), tuple(resists.items()), None if meets is None else tuple(meets.items()))
+        t = verdicts.get(key) if plain else None
         if t is None:
-            part = {"unconservative": list(e["unconservative"]), "resists": dict(e["resists"]),
-                    "meets_required": None if e["meets_required"] is None else dict(e["meets_required"])}
-            t = verdicts[key] = json.dumps(part, **compact)[1:-1]
+            part = {"unconservative": list(uncons), "resists": dict(resists),
+                    "meets_required": None if meets is None else dict(meets)}
+            t = json.dumps(part, **compact)[1:-1]
+            if plain:
+                verdicts[key] = t
         return t
 
     eq_cols = {k: Numbers(c["eq." + k][has_eq]) for k in ("annex_f_min", "cib_w14_min", "equal_temperature_min")}

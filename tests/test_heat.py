@@ -336,3 +336,31 @@ def test_bare_step_limit_separates_monotone_from_overshooting_histories(alpha_c,
     assert np.all(np.diff(below) >= -1e-9) and below.max() <= 1000.0 + 1e-9
     above = heat.bare_history(t, g, 3.0 * limit, alpha_c, EPS, rho_a)
     assert np.nanmax(above[:10]) > 1000.0 + 1.0  # (and then diverges)
+
+
+def test_every_kernel_can_be_cached(tmp_path):
+    """numba caches each kernel on disk (cache=True), so that a second process starts warm; a kernel
+    that reads a dynamic global (numba.get_num_threads() inside it, say) silently cannot be cached
+    (it warns once, then recompiles in every process). Compiled in a fresh cache folder, no kernel may
+    warn, and every batch kernel leaves its index file."""
+    import os
+    import subprocess
+    import sys
+
+    code = (
+        "import warnings, numpy as np\n"
+        "warnings.simplefilter('error')\n"
+        "from steelfire import heat, jsontext\n"
+        "t = np.arange(0.0, 601.0, 5.0); g = np.linspace(20.0, 800.0, t.size)\n"
+        "n = 3; one = np.ones(n)\n"
+        "heat.batch(t, g, np.array([True, False, False]), one * 150.0, 25.0, 0.7, 7850.0, one * 0.02, one * 800.0,\n"
+        "           one * 1700.0, np.array([[20.0, 500.0]] * n), np.array([[0.2, 0.3]] * n), np.array([1, 1, 2]),\n"
+        "           np.zeros(n), one * 500.0, np.zeros(0, dtype=np.int64), False)\n"
+        "jsontext.objects_json({'a': jsontext.Numbers([1.5]), 'b': ['true']})\n"
+    )
+    env = dict(os.environ, NUMBA_CACHE_DIR=str(tmp_path))
+    r = subprocess.run([sys.executable, "-c", code], env=env, capture_output=True, text=True, timeout=600)
+    assert r.returncode == 0, r.stderr[-2000:]
+    index = {p.name.split("-")[0] for p in tmp_path.rglob("*.nbi")}
+    for kernel in ("heat._protected_chunks", "heat._bare_chunks", "jsontext._write_objects"):
+        assert kernel in index, (kernel, sorted(index))

@@ -161,3 +161,21 @@ def test_cli_compact_document_equals_json_dumps(monkeypatch, capsys):
     assert compact != indented and "\n" not in compact.rstrip("\n")
     assert json.loads(compact) == json.loads(indented)
     assert compact.rstrip("\n") == json.dumps(json.loads(indented), separators=(",", ":"))
+
+
+def test_verdicts_that_compare_equal_but_write_differently():
+    """1 == True == numpy.True_ as dict keys, but json.dumps writes 1 and true, and refuses numpy's
+    bool: the writer must not reuse one member's verdict text for another's (found by review)."""
+    res = steelfire.analyse(steelfire.load_case(ROOT / "cases" / "office_floor.toml"), histories=False)
+    with_eq = [m for m in res.members if m.equivalence is not None and m.equivalence["resists"]]
+    assert len(with_eq) >= 3
+    # two members whose verdict keys compare equal: ((), (("annex_f", True),), None) == (..., 1 ...)
+    for m, v in ((with_eq[1], True), (with_eq[2], 1)):
+        m.equivalence = dict(m.equivalence, unconservative=[], resists={"annex_f": v}, meets_required=None)
+    assert res.to_json_compact() == compact_reference(res)
+    assert '"resists":{"annex_f":1}' in res.to_json_compact()
+    with_eq[2].equivalence = dict(with_eq[2].equivalence, resists={"annex_f": np.True_})
+    with pytest.raises(TypeError):
+        compact_reference(res)
+    with pytest.raises(TypeError):
+        res.to_json_compact()
