@@ -11,7 +11,7 @@ import math
 import numpy as np
 
 from . import heat, steel
-from .case import Case
+from .case import Case, member_label
 from .errors import InputError, OutOfScopeError
 from .fire import compartment as comp
 from .fire import fireload, nominal, parametric, tabulated
@@ -270,7 +270,7 @@ def check_bare_step(case, members, cols, fires):
             m = members[i]
             k_sh = amv[i] / m.section_factor_per_m
             raise InputError(
-                f"member[{i + 1}] ({m.name}).section_factor_per_m", m.section_factor_per_m,
+                f"{member_label(case.member_places, i, m)}.section_factor_per_m", m.section_factor_per_m,
                 f"too large for the time step {float(np.max(np.diff(time_s))):g} s: in the {label}, eq (4.25) of "
                 f"EN 1993-1-2 stepped explicitly passes the gas temperature in one step unless k_sh Am/V < "
                 f"{limit:.4g} 1/m (here k_sh = {k_sh:.3g}; alpha_c = {alpha_c:g} W/(m2 K), "
@@ -311,7 +311,7 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     members = case.members
     for i, m in enumerate(members):
         if m.protection is not None and m.thickness_mm is None:
-            raise InputError(f"member[{i + 1}] ({m.name}).thickness_mm", None,
+            raise InputError(f"{member_label(case.member_places, i, m)}.thickness_mm", None,
                              "is missing; the check needs it (steelfire size computes it)")
     crit = _critical_all(members)
     thresholds = np.array([c[0] for c in crit])

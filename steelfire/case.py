@@ -135,6 +135,48 @@ class Member:
 
 
 @dataclass(frozen=True)
+class MemberPlaces:
+    """Where each member of a case was given, for the errors found after loading (the time step
+    against the protection, at the check): ``"schedule.csv row 7"`` for a schedule row, ``"member[3]"``
+    for a [[member]] table. Kept per block of rows, a label made only when asked.
+
+    ``names`` are the members' names in case order; a member whose name is not the one at its index
+    (a case whose members were replaced or reordered since) is labelled by its index alone.
+    """
+
+    names: tuple
+    blocks: tuple  # per block of rows, see :meth:`of_block`
+
+    @staticmethod
+    def of_block(b) -> tuple:
+        """(count, schedule file name, its row numbers, labels): a [[member]] block is labelled by
+        index, a schedule by file and row, any other block by its own ``where`` labels."""
+        if isinstance(b, _InlineRows):
+            return (b.n, None, None, None)
+        fname, lines = getattr(b, "fname", None), getattr(b, "lines", None)
+        if fname is not None and lines is not None:
+            return (b.n, fname, lines, None)
+        return (b.n, None, None, [b.where(i) for i in range(b.n)])
+
+    def label(self, i: int, member) -> str:
+        where = f"member[{i + 1}]"
+        if i < len(self.names) and self.names[i] == member.name:
+            k = i
+            for n, fname, lines, labels in self.blocks:
+                if k < n:
+                    where = (f"{fname} row {lines[k]}" if fname is not None
+                             else labels[k] if labels is not None else f"member[{k + 1}]")
+                    break
+                k -= n
+        return _member_where(where, member.name)
+
+
+def member_label(places: MemberPlaces | None, i: int, member) -> str:
+    """The error-message name of member ``i`` of a case: its place (see :class:`MemberPlaces`) and name."""
+    return places.label(i, member) if places is not None else _member_where(f"member[{i + 1}]", member.name)
+
+
+@dataclass(frozen=True)
 class Case:
     title: str
     fire: FireSpec
@@ -147,6 +189,7 @@ class Case:
     source: Path | None = None
     code_overrides: dict = field(default_factory=dict)
     inputs: tuple = ()  # the files read: case file, members_file, fire table
+    member_places: MemberPlaces | None = field(default=None, compare=False, repr=False)
 
 
 # ----------------------------------------------------------------------------------------------
@@ -304,9 +347,10 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
         _refuse_repeated_name(blocks, members)
     top.done()
 
+    places = MemberPlaces(names=tuple(names), blocks=tuple(MemberPlaces.of_block(b) for b in blocks))
     limit, clause = time_step_limit(members, code)
     check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
-    check_protection_step(members, materials, code, analysis.time_step_s)
+    check_protection_step(members, materials, code, analysis.time_step_s, places=places)
     horizon = analysis.standard_horizon_min
     for k, m in enumerate(members):
         if m.required_minutes is not None and m.required_minutes > horizon:
@@ -314,7 +358,8 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
                              f"must be <= analysis.standard_horizon_min = {horizon:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
-                code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs))
+                code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs),
+                member_places=places)
 
 
 @contextlib.contextmanager
@@ -397,7 +442,7 @@ def with_time_step(case: Case, time_step_s, field="--time-step-s") -> Case:
 
     limit, clause = time_step_limit(case.members, case.code)
     check_time_step(time_step_s, limit, clause, case.fire.duration_min, case.analysis.standard_horizon_min, field)
-    check_protection_step(case.members, case.materials, case.code, time_step_s, field)
+    check_protection_step(case.members, case.materials, case.code, time_step_s, field, case.member_places)
     return dataclasses.replace(case, analysis=dataclasses.replace(case.analysis, time_step_s=float(time_step_s)))
 
 
@@ -412,7 +457,7 @@ def check_time_step(time_step_s, limit_s, clause, duration_min, horizon_min, fie
                          f"gives {points:.3g} steps; at most {MAX_GRID_POINTS:.0e} (use a larger step)")
 
 
-def check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s"):
+def check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s", places=None):
     """Refuse protection so thin that eq (4.27), stepped explicitly, overshoots the gas in one step
     (:func:`steelfire.heat.stable_min_thickness_m`, with the material's largest conductivity).
 
@@ -438,12 +483,12 @@ def check_protection_step(members, materials, code, time_step_s, field="analysis
     d_mm = np.array([members[i].thickness_mm for i in at], dtype=float)
     d_min_mm = 1e3 * stable_min_thickness_m(lam, c_p, rho_p, am_v, time_step_s, code["steel_density_kg_m3"])
     for j in np.flatnonzero(~(d_mm >= d_min_mm * (1.0 + 1e-9))):
-        err = _protection_step_error(at[j], members[at[j]], materials, code, time_step_s, field)
+        err = _protection_step_error(at[j], members[at[j]], materials, code, time_step_s, field, places)
         if err is not None:
             raise err
 
 
-def _protection_step_error(i, m, materials, code, time_step_s, field):
+def _protection_step_error(i, m, materials, code, time_step_s, field, places=None):
     """The InputError for member ``i`` (``m``) if its protection is too thin for the time step, else None."""
     from .heat import stable_min_thickness_m
 
@@ -455,7 +500,7 @@ def _protection_step_error(i, m, materials, code, time_step_s, field):
                                                   time_step_s, code["steel_density_kg_m3"]))
     if m.thickness_mm < d_min_mm:
         return InputError(
-            f"member[{i + 1}] ({m.name}).thickness_mm", m.thickness_mm,
+            f"{member_label(places, i, m)}.thickness_mm", m.thickness_mm,
             f"too thin for the time step {time_step_s:g} s ({field}): eq (4.27) of EN 1993-1-2, stepped "
             f"explicitly, needs d_p >= {d_min_mm:.3g} mm here (lambda_p = {lam:g} W/(m K), "
             f"Ap/V = {m.section_factor_per_m:g} 1/m); give a thicker protection or a smaller time step")

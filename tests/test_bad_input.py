@@ -880,3 +880,37 @@ def test_utilisation_at_the_edges_runs(tmp_path, mu):
                   modes={"json": ("--json",)})["json"]
     assert r.returncode in (0, 1), r.stderr
     assert json.loads(r.stdout)["members"][0]["critical_temperature_C"] > 0
+
+
+def test_errors_after_loading_name_the_schedule_row(tmp_path):
+    """Refusals found after the rows are read (protection too thin for the time step, a bare step
+    that overshoots the gas) name a CSV member by its file and row, as the loader's own errors do."""
+    data = edited("nominal", (("member",), DELETE))
+    data["members_file"] = "sched.csv"
+    (tmp_path / "sched.csv").write_text(
+        "name,section_factor_per_m,utilisation,protection,thickness_mm\n"
+        "P1,150,0.5,board,15\n"
+        "P2,150,0.5,board,0.001\n", encoding="utf-8")
+    assert_refused(write_case(tmp_path, data), "sched.csv row 3 (P2).thickness_mm", "0.001",
+                   "too thin for the time step")
+    (tmp_path / "sched.csv").write_text(
+        "name,section_factor_per_m,utilisation\n"
+        "T1,100,0.5\n"
+        "T2,1000,0.5\n", encoding="utf-8")
+    data["code"] = {"steel_density_kg_m3": 1000.0, "alpha_c_standard": 500.0}
+    assert_refused(write_case(tmp_path, data), "sched.csv row 3 (T2).section_factor_per_m", 1000.0,
+                   "too large for the time step")
+
+
+def test_member_labels_follow_the_members_not_their_index(tmp_path):
+    import dataclasses
+
+    from steelfire.case import load_case, member_label
+
+    case = load_case(write_case(tmp_path, nominal_case()))
+    b1, t1 = case.members
+    assert member_label(case.member_places, 0, b1) == "member[1] (B1)"
+    assert member_label(case.member_places, 1, t1) == "member[2] (T1)"
+    swapped = dataclasses.replace(case, members=(t1, b1))
+    # a reordered case: the places no longer match, so the index is all that is said
+    assert member_label(swapped.member_places, 0, t1) == "member[1] (T1)"

@@ -360,9 +360,10 @@ def test_column_reader_edges(tmp_path):
 # whole cases: the fast load against the same load with every fast path replaced by its row reader
 
 
-def _reference_check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s"):
+def _reference_check_protection_step(members, materials, code, time_step_s, field="analysis.time_step_s",
+                                     places=None):
     for i, m in enumerate(members):
-        err = case_mod._protection_step_error(i, m, materials, code, time_step_s, field)
+        err = case_mod._protection_step_error(i, m, materials, code, time_step_s, field, places)
         if err is not None:
             raise err
 
