@@ -15,7 +15,7 @@ from .case import Case, member_label
 from .errors import InputError, OutOfScopeError
 from .fire import compartment as comp
 from .fire import fireload, nominal, parametric, tabulated
-from .results import AnalysisResult, FireResult, MemberResult
+from .results import AnalysisResult, FireResult, MemberResult, none_for_nan
 
 CAUTIONS = (
     "Simplified code methods (EN 1991-1-2, EN 1993-1-2) with validity limits; Annexes A, E and F are informative.",
@@ -249,21 +249,22 @@ def bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a) -> float:
     return math.inf if dt <= 0.0 else 1.0 / (dt * worst)
 
 
-def check_bare_step(case, members, cols, fires):
+def check_bare_step(case, members, fires):
     """Refuse bare members for which eq (4.25), stepped explicitly, overshoots the gas in one step.
 
-    ``fires``: (time_s, gas_C, alpha_c, nominal, label) of each fire the members run in; ``nominal``
-    picks the shadow factor of eq (4.26a), ``label`` names the fire in the message. The limit (:func:`bare_step_limit_per_m`) is far beyond real
-    sections at the clause's 5 s step; code values ([code]) and longer steps can bring it within reach.
+    ``fires``: (time_s, gas_C, alpha_c, kernel arrays, label) of each fire the members run in (the
+    arrays of :meth:`MemberColumns.arrays` give which members are bare and their k_sh Am/V);
+    ``label`` names the fire in the message. The limit (:func:`bare_step_limit_per_m`) is far beyond
+    real sections at the clause's 5 s step; code values ([code]) and longer steps bring it within reach.
     """
-    if not np.any(cols.bare):
-        return
     code = case.code
     eps_res = code["configuration_factor"] * code["emissivity_steel"] * code["emissivity_fire"]
     rho_a = code["steel_density_kg_m3"]
-    for time_s, gas_C, alpha_c, nominal_fire, label in fires:
+    for time_s, gas_C, alpha_c, arrays, label in fires:
+        bare, amv = arrays[:2]
+        if not np.any(bare):
+            continue
         limit = bare_step_limit_per_m(time_s, gas_C, alpha_c, eps_res, rho_a)
-        bare, amv = cols.arrays(nominal_fire=nominal_fire)[:2]
         over = np.flatnonzero(bare & (amv >= limit))
         if len(over):
             i = int(over[0])
@@ -317,19 +318,20 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     thresholds = np.array([c[0] for c in crit])
     nominal_design = case.fire.curve in NOMINAL_CURVES
     cols = MemberColumns(case, members)
+    design_arrays = cols.arrays(nominal_fire=nominal_design)
+    standard_arrays = cols.arrays(nominal_fire=True)
     ts = time_grid(case.analysis.standard_horizon_min * 60.0, step)
     gs = nominal.standard_fire(ts)
-    check_bare_step(case, members, cols, [(t, g, fire.alpha_c, nominal_design, "design fire"),
-                                          (ts, gs, code["alpha_c_standard"], True,
-                                           "standard fire of the times to critical")])
+    check_bare_step(case, members, [(t, g, fire.alpha_c, design_arrays, "design fire"),
+                                    (ts, gs, code["alpha_c_standard"], standard_arrays,
+                                     "standard fire of the times to critical")])
     peak, peak_t, _, _, last, hist = run_members(case, None, t, g, fire.alpha_c, thresholds,
-                                                 keep_history=histories,
-                                                 arrays=cols.arrays(nominal_fire=nominal_design))
+                                                 keep_history=histories, arrays=design_arrays)
     # the standard fire, for times to critical (EN 1991-1-2 3.2.1, alpha_c of 3.2.1(3))
     # and for the equal-steel-temperature equivalence: when the same member reaches its design-fire
     # peak under the standard fire (the members run twice in one batch, one threshold each)
     n = len(members)
-    std_arrays = tuple(np.concatenate([a, a]) for a in cols.arrays(nominal_fire=True))
+    std_arrays = tuple(np.concatenate([a, a]) for a in standard_arrays)
     _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],
                                         np.concatenate([thresholds, peak]), arrays=std_arrays)
     cross, equal_t = cross2[:n], cross2[n:]
@@ -337,7 +339,7 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
 
     # one member result each, from columns converted to Python floats once
     peak_l, peak_min_l = peak.tolist(), (peak_t / 60.0).tolist()
-    cross_min_l = [None if v != v else v for v in (cross / 60.0).tolist()]  # NaN: not within the horizon
+    cross_min_l = none_for_nan(cross / 60.0)  # NaN: not within the horizon
     results = [
         MemberResult(
             name=m.name, kind=m.kind, section_factor_per_m=m.section_factor_per_m, protection=m.protection,
@@ -463,10 +465,7 @@ def _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, ho
     no_t_fi = np.isnan(t_fi)
     res_a, res_w, res_d = ((no_t_fi | (t_fi >= v - 1e-9)).tolist() for v in (a, w, d))
 
-    def col(v):
-        return [None if x != x else x for x in v.tolist()]
-
-    a_l, w_l, d_l, kc_l, small_l = col(a), col(w), col(d), col(kc), col(small)
+    a_l, w_l, d_l, kc_l, small_l = (none_for_nan(v) for v in (a, w, d, kc, small))
     has_req = [m.required_minutes is not None for m in members]
     out = []
     for i in range(n):

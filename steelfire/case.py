@@ -136,39 +136,27 @@ class Member:
 
 @dataclass(frozen=True)
 class MemberPlaces:
-    """Where each member of a case was given, for the errors found after loading (the time step
-    against the protection, at the check): ``"schedule.csv row 7"`` for a schedule row, ``"member[3]"``
-    for a [[member]] table. Kept per block of rows, a label made only when asked.
+    """Where each member of a case was given, for error messages: ``"schedule.csv row 7"`` for a
+    schedule row, ``"member[3]"`` for a [[member]] table (each block of rows names its own rows).
 
     ``names`` are the members' names in case order; a member whose name is not the one at its index
-    (a case whose members were replaced or reordered since) is labelled by its index alone.
+    (a case whose members were replaced or reordered since loading) is labelled by its index alone.
     """
 
     names: tuple
-    blocks: tuple  # per block of rows, see :meth:`of_block`
+    blocks: tuple  # per block of rows: (count, where), where(k) naming its k-th row
 
-    @staticmethod
-    def of_block(b) -> tuple:
-        """(count, schedule file name, its row numbers, labels): a [[member]] block is labelled by
-        index, a schedule by file and row, any other block by its own ``where`` labels."""
-        if isinstance(b, _InlineRows):
-            return (b.n, None, None, None)
-        fname, lines = getattr(b, "fname", None), getattr(b, "lines", None)
-        if fname is not None and lines is not None:
-            return (b.n, fname, lines, None)
-        return (b.n, None, None, [b.where(i) for i in range(b.n)])
+    def where(self, i: int) -> str:
+        """The name of the i-th member row of the case (counting through the blocks)."""
+        for n, where in self.blocks:
+            if i < n:
+                return where(i)
+            i -= n
+        raise IndexError(i)
 
     def label(self, i: int, member) -> str:
-        where = f"member[{i + 1}]"
-        if i < len(self.names) and self.names[i] == member.name:
-            k = i
-            for n, fname, lines, labels in self.blocks:
-                if k < n:
-                    where = (f"{fname} row {lines[k]}" if fname is not None
-                             else labels[k] if labels is not None else f"member[{k + 1}]")
-                    break
-                k -= n
-        return _member_where(where, member.name)
+        ok = i < len(self.names) and self.names[i] == member.name
+        return _member_where(self.where(i) if ok else f"member[{i + 1}]", member.name)
 
 
 def member_label(places: MemberPlaces | None, i: int, member) -> str:
@@ -328,7 +316,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     inputs = [Path(source)] if source else []
     if fire.file is not None:
         inputs.append(fire.file)
-    with _collector_paused():
+    with collector_paused():
         blocks = [_InlineRows(members_raw)]
         if top.has("members_file"):
             from .schedule import read_schedule_columns
@@ -342,19 +330,19 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
         if count > MAX_MEMBERS:
             raise InputError("member", count, f"at most {MAX_MEMBERS} members per case")
         members = tuple(m for b in blocks for m in _members_of(b, materials, code))
-    names = [m.name for m in members]
+    names = tuple(m.name for m in members)
+    places = MemberPlaces(names=names, blocks=tuple((b.n, b.where) for b in blocks))
     if len(set(names)) != len(names):
-        _refuse_repeated_name(blocks, members)
+        _refuse_repeated_name(places, members)
     top.done()
 
-    places = MemberPlaces(names=tuple(names), blocks=tuple(MemberPlaces.of_block(b) for b in blocks))
     limit, clause = time_step_limit(members, code)
     check_time_step(analysis.time_step_s, limit, clause, fire.duration_min, analysis.standard_horizon_min)
     check_protection_step(members, materials, code, analysis.time_step_s, places=places)
     horizon = analysis.standard_horizon_min
     for k, m in enumerate(members):
         if m.required_minutes is not None and m.required_minutes > horizon:
-            raise InputError(f"{_member_where(_where_at(blocks, k), m.name)}.required_minutes", m.required_minutes,
+            raise InputError(f"{places.label(k, m)}.required_minutes", m.required_minutes,
                              f"must be <= analysis.standard_horizon_min = {horizon:g} min")
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
@@ -363,8 +351,9 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
 
 
 @contextlib.contextmanager
-def _collector_paused():
-    """Pause Python's cyclic garbage collector while the member rows are read (resumed after, also on error).
+def collector_paused():
+    """Pause Python's cyclic garbage collector (resumed after, also on error): while member rows are
+    read here, and for a whole command in the CLI.
 
     Reading a long schedule allocates tens of thousands of objects (CSV rows, Members) that form no
     reference cycles. Left running, the collector walks the young objects every 700 allocations and,
@@ -380,23 +369,14 @@ def _collector_paused():
             gc.enable()
 
 
-def _refuse_repeated_name(blocks, members):
+def _refuse_repeated_name(places, members):
     """Raise for the first member whose name an earlier member already has."""
     names = {}
     for k, m in enumerate(members):
-        where = _where_at(blocks, k)
+        where = places.where(k)
         if m.name in names:
             raise InputError(f"{_member_where(where, m.name)}.name", m.name, f"must be unique (also {names[m.name]})")
         names[m.name] = where
-
-
-def _where_at(blocks, k):
-    """The error-message name of the k-th member row of the case (counting through the blocks)."""
-    for b in blocks:
-        if k < b.n:
-            return b.where(k)
-        k -= b.n
-    raise IndexError(k)
 
 
 def _check_integers(v, where):

@@ -7,7 +7,6 @@ member passes and meets its period, 1 some member does not, 2 bad input.
 from __future__ import annotations
 
 import argparse
-import gc
 import json
 import sys
 
@@ -259,23 +258,20 @@ def _write(result, args, case, command):
 
 
 def main(argv=None) -> int:
+    from .case import collector_paused
     from .errors import InputError
 
     args = _parser().parse_args(argv)
     # One run builds many small acyclic containers (member rows, result entries, the JSON tree) and
     # frees them by reference counting; the cyclic collector would only re-scan them, which costs a
     # large schedule as much again as building them. It is off for the run and back on after.
-    gc_was_on = gc.isenabled()
-    gc.disable()
-    try:
-        if args.command == "check":
-            return _run_check(args)
-        if args.command == "size":
-            return _run_size(args)
-    except InputError as exc:
-        sys.stderr.write(f"steelfire: error: {exc}\n")
-        return EXIT_INPUT
-    finally:
-        if gc_was_on:
-            gc.enable()
+    with collector_paused():
+        try:
+            if args.command == "check":
+                return _run_check(args)
+            if args.command == "size":
+                return _run_size(args)
+        except InputError as exc:
+            sys.stderr.write(f"steelfire: error: {exc}\n")
+            return EXIT_INPUT
     return EXIT_INPUT

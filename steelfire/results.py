@@ -63,11 +63,11 @@ def round_column(values, nd=2, as_array=False):
         beyond = np.isfinite(a) & ~(np.abs(y) < 2.0 ** 52)
     for i in np.flatnonzero(near_half | beyond):
         r[i] = round(float(a[i]), nd)
-    return r if as_array else _listed(r)
+    return r if as_array else none_for_nan(r)
 
 
-def _listed(a) -> list:
-    """A float array as a list of Python floats, None for NaN."""
+def none_for_nan(a) -> list:
+    """A float array as a list of Python floats, None for NaN (JSON's null)."""
     out = a.tolist()
     for i in np.flatnonzero(np.isnan(a)):
         out[i] = None
@@ -105,7 +105,7 @@ def sig_column(values, n=6, as_array=False):
     for i in np.flatnonzero(~exact):
         v = _sig(values[i], n)  # None and NaN become None here
         r[i] = np.nan if v is None else v
-    return r if as_array else _listed(r)
+    return r if as_array else none_for_nan(r)
 
 
 def _column(rows, key):
@@ -170,7 +170,7 @@ def member_dicts(members) -> list:
     ms = list(members)
     if not ms:
         return []
-    c = {k: _listed(v) if isinstance(v, np.ndarray) else v for k, v in _member_columns(ms).items()}
+    c = {k: none_for_nan(v) if isinstance(v, np.ndarray) else v for k, v in _member_columns(ms).items()}
     cols = [c[k] for k in _MEMBER_KEYS]
     eq_a, eq_w, eq_d = c["eq.annex_f_min"], c["eq.cib_w14_min"], c["eq.equal_temperature_min"]
     eq_kc, eq_small = c["eq.annex_f_k_c"], c["eq.annex_f_small_compartment_min"]
