@@ -15,7 +15,7 @@ from .case import Case, member_label
 from .errors import InputError, OutOfScopeError
 from .fire import compartment as comp
 from .fire import fireload, nominal, parametric, tabulated
-from .results import AnalysisResult, FireResult, MemberResult, none_for_nan
+from .results import _VERDICT_BITS, AnalysisResult, EquivalenceColumns, FireResult, MemberResults, MemberTable
 
 CAUTIONS = (
     "Simplified code methods (EN 1991-1-2, EN 1993-1-2) with validity limits; Annexes A, E and F are informative.",
@@ -335,27 +335,24 @@ def analyse(case: Case, histories: bool = True) -> AnalysisResult:
     _, _, cross2, _, _, _ = run_members(case, None, ts, gs, code["alpha_c_standard"],
                                         np.concatenate([thresholds, peak]), arrays=std_arrays)
     cross, equal_t = cross2[:n], cross2[n:]
-    equiv = equivalence_routes(case, fire, members, equal_t, warnings, cross)
+    factors, equiv = _equivalence(case, fire, members, equal_t, warnings, cross)
 
-    # one member result each, from columns converted to Python floats once
-    peak_l, peak_min_l = peak.tolist(), (peak_t / 60.0).tolist()
-    cross_min_l = none_for_nan(cross / 60.0)  # NaN: not within the horizon
-    results = [
-        MemberResult(
-            name=m.name, kind=m.kind, section_factor_per_m=m.section_factor_per_m, protection=m.protection,
-            thickness_mm=m.thickness_mm, critical_temperature_C=float(cr[0]), critical_temperature_source=cr[1],
-            peak_steel_temperature_C=pk, time_of_peak_steel_min=pt, standard_fire_time_to_critical_min=cm,
-            required_minutes=m.required_minutes,
-            shadow_factor=None if m.protection is not None else (
-                m.shadow_factor_nominal if nominal_design else m.shadow_factor_natural),
-            utilisation=m.utilisation, steel_temperature_C=hist[:, i].copy() if histories else None,
-            equivalence=eq)
-        for i, (m, cr, pk, pt, cm, eq) in enumerate(zip(members, crit, peak_l, peak_min_l, cross_min_l,
-                                                         equiv["members"]))]
+    # the members' verdicts by column; their MemberResult objects are made when first asked for
+    table = MemberTable(
+        name=[m.name for m in members], kind=[m.kind for m in members],
+        section_factor_per_m=[m.section_factor_per_m for m in members],
+        protection=[m.protection for m in members], thickness_mm=[m.thickness_mm for m in members],
+        critical_temperature_C=thresholds, critical_temperature_source=[c[1] for c in crit],
+        peak_steel_temperature_C=peak, time_of_peak_steel_min=peak_t / 60.0,
+        standard_fire_time_to_critical_min=cross / 60.0,  # NaN: not within the horizon
+        required_minutes=[m.required_minutes for m in members],
+        shadow_factor=[None if m.protection is not None else (
+            m.shadow_factor_nominal if nominal_design else m.shadow_factor_natural) for m in members],
+        utilisation=[m.utilisation for m in members], histories=hist if histories else None, equivalence=equiv)
 
     warnings += _member_warnings(case, members, fire, t, g, peak, last, cols)
-    fr.equivalence_factors = equiv["factors"]
-    return AnalysisResult(title=case.title, fire=fr, members=results, code_values=dict(code),
+    fr.equivalence_factors = factors
+    return AnalysisResult(title=case.title, fire=fr, members=MemberResults(table), code_values=dict(code),
                           warnings=fire.out_of_scope + warnings, out_of_scope=list(fire.out_of_scope),
                           time_step_s=step, standard_horizon_min=case.analysis.standard_horizon_min,
                           cautions=CAUTIONS)
@@ -373,6 +370,12 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
     The direct route is the time at which the member, under the standard fire, reaches the peak it
     reaches in the design fire (null if not within standard_horizon_min).
     """
+    factors, columns = _equivalence(case, fire, members, equal_time_s, warnings, critical_time_s)
+    return {"factors": factors, "members": columns.entries()}
+
+
+def _equivalence(case, fire, members, equal_time_s, warnings, critical_time_s=None):
+    """:func:`equivalence_routes` with the members' entries by column: (factors, EquivalenceColumns)."""
     from . import equivalence as eq
 
     horizon = case.analysis.standard_horizon_min
@@ -417,27 +420,48 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
                         "only the equal-steel-temperature route is given.")
     if cib is not None and any(m.protection is None for m in members):
         warnings.append("CIB W14 is derived for protected (insulated) members: null for the bare members.")
-    out = _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, horizon)
-    flagged = [m.name for m, e in zip(members, out) if e["unconservative"]]
+    out = _equivalence_columns(members, annex_f, cib, equal_time_s, critical_time_s, horizon)
+    flagged = [members[i].name for i in np.flatnonzero(out.unconservative_any())]
     if flagged:
         warnings.append(
             f"Time equivalence more than {UNCONSERVATIVE_FRACTION:.0%} below the direct (equal steel temperature) "
             f"answer, i.e. unconservative, for {_names(flagged)}: see each member's 'unconservative' routes.")
-    beyond = [m.name for m, e in zip(members, out) if e["equal_temperature_beyond_horizon"]]
+    beyond = [members[i].name for i in np.flatnonzero(np.isnan(out.equal_temperature_min))]
     if beyond:
         warnings.append(
             f"Equal-temperature equivalence beyond the standard-fire horizon ({horizon:g} min) for {_names(beyond)}: "
             "the design-fire peak is not reached within it (null; compared as at least the horizon).")
-    return {"factors": factors, "members": out}
+    return factors, out
 
 
 def _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, horizon):
-    """Each member's equivalence entry: the routes' times, which are unconservative, whether each
+    """Each member's equivalence entry (a dict per member): :func:`_equivalence_columns`, one
+    member at a time."""
+    return _equivalence_columns(members, annex_f, cib, equal_time_s, critical_time_s, horizon).entries()
+
+
+def _verdict_of(bits: dict):
+    """(unconservative routes, resists pairs, meets_required pairs or None) of one verdict code's bits."""
+    routes = [r for r in ("annex_f", "cib_w14", "equal_temperature") if bits["has_" + r]]
+    uncons = tuple(r for r in ("annex_f", "cib_w14") if bits["uncons_" + r])
+    resists = tuple((r, bits["resists_" + r]) for r in routes)
+    meets = None
+    if bits["has_required"]:
+        meets = [(r, bits["meets_" + r]) for r in routes]
+        if not bits["has_equal_temperature"] and bits["meets_equal_temperature_given"]:
+            meets.append(("equal_temperature", False))
+        meets = tuple(meets)
+    return uncons, resists, meets
+
+
+def _equivalence_columns(members, annex_f, cib, equal_time_s, critical_time_s, horizon) -> EquivalenceColumns:
+    """The members' equivalence entries: the routes' times, which are unconservative, whether each
     stays within the required period (``meets_required``) and whether the member's own standard-fire
     time to critical reaches it (``resists``, the check t_fi,d >= t_e,d).
 
     Annex F and CIB W14 give one time per group (protected, bare); the comparisons are made for all
-    members at once with numpy (NaN stands for null and compares false), then assembled per member.
+    members at once with numpy (NaN stands for null and compares false), and each member's verdicts
+    are packed into one integer code (bits :data:`_VERDICT_BITS`).
     """
     n = len(members)
     prot = np.fromiter((m.protection is not None for m in members), dtype=bool, count=n)
@@ -458,53 +482,36 @@ def _member_equivalence(members, annex_f, cib, equal_time_s, critical_time_s, ho
                       dtype=float, count=n)
     direct = np.where(np.isnan(d), horizon, d)  # null: beyond the horizon, so at least the horizon
     limit = (1.0 - UNCONSERVATIVE_FRACTION) * direct
-    uncons_a, uncons_w = (a < limit).tolist(), (w < limit).tolist()
-    meets_a, meets_w, meets_d = ((v <= req + 1e-9).tolist() for v in (a, w, d))
-    # beyond the horizon, the equal-temperature time exceeds any period within it
-    meets_d_null = (req <= horizon).tolist()
     no_t_fi = np.isnan(t_fi)
-    res_a, res_w, res_d = ((no_t_fi | (t_fi >= v - 1e-9)).tolist() for v in (a, w, d))
-
-    a_l, w_l, d_l, kc_l, small_l = (none_for_nan(v) for v in (a, w, d, kc, small))
-    has_req = [m.required_minutes is not None for m in members]
-    out = []
-    for i in range(n):
-        ai, wi, di = a_l[i], w_l[i], d_l[i]
-        uncons = []
-        if uncons_a[i]:
-            uncons.append("annex_f")
-        if uncons_w[i]:
-            uncons.append("cib_w14")
-        meets = None
-        if has_req[i]:
-            meets = _by_route(ai, wi, di, meets_a[i], meets_w[i], meets_d[i])
-            if di is None and meets_d_null[i]:
-                meets["equal_temperature"] = False
-        resists = _by_route(ai, wi, di, res_a[i], res_w[i], res_d[i])
-        out.append({"annex_f_min": ai, "cib_w14_min": wi, "equal_temperature_min": di, "unconservative": uncons,
-                    "resists": resists, "annex_f_small_compartment_min": small_l[i], "meets_required": meets,
-                    "annex_f_k_c": kc_l[i], "equal_temperature_beyond_horizon": di is None})
-    return out
-
-
-def _by_route(annex_f_min, cib_w14_min, equal_temperature_min, annex_f, cib_w14, equal_temperature):
-    """{route: verdict} for the routes that give a time (annex_f, cib_w14, equal_temperature)."""
-    out = {}
-    if annex_f_min is not None:
-        out["annex_f"] = annex_f
-    if cib_w14_min is not None:
-        out["cib_w14"] = cib_w14
-    if equal_temperature_min is not None:
-        out["equal_temperature"] = equal_temperature
-    return out
+    bits = {
+        "has_annex_f": ~np.isnan(a), "has_cib_w14": ~np.isnan(w), "has_equal_temperature": ~np.isnan(d),
+        "uncons_annex_f": a < limit, "uncons_cib_w14": w < limit,
+        "has_required": ~np.isnan(req),
+        "meets_annex_f": a <= req + 1e-9, "meets_cib_w14": w <= req + 1e-9, "meets_equal_temperature": d <= req + 1e-9,
+        # beyond the horizon, the equal-temperature time exceeds any period within it
+        "meets_equal_temperature_given": req <= horizon,
+        "resists_annex_f": no_t_fi | (t_fi >= a - 1e-9), "resists_cib_w14": no_t_fi | (t_fi >= w - 1e-9),
+        "resists_equal_temperature": no_t_fi | (t_fi >= d - 1e-9),
+    }
+    packed = np.zeros(n, dtype=np.int64)
+    for k, name in enumerate(_VERDICT_BITS):
+        packed |= bits[name].astype(np.int64) << k
+    distinct, code = np.unique(packed, return_inverse=True)
+    verdicts = [_verdict_of({name: bool((int(v) >> k) & 1) for k, name in enumerate(_VERDICT_BITS)})
+                for v in distinct.tolist()]
+    return EquivalenceColumns(a, w, d, kc, small, code.reshape(-1).astype(np.int64), verdicts)
 
 
 def _member_warnings(case, members, fire, t, g, peak, last, cols):
     out = []
     from .protection import assessment_warnings
 
+    # only materials that state an assessed range (or a standard-fire-only assessment) can warn
+    assessed = {name for name, mt in case.materials.items()
+                if mt.assessed_thickness_mm or mt.assessed_section_factor_per_m
+                or mt.assessed_max_steel_temperature_C is not None or mt.assessed_fire == "standard"}
     for i, m in enumerate(members):
-        if m.protection is not None:
+        if m.protection in assessed:
             out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
                                        float(peak[i]), fire.cools)
     mixed = [m.name for m in members if m.protection is None and m.shadow_factor is None

@@ -124,9 +124,15 @@ def protected_history(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
 #: Members advanced side by side in one time loop: independent chains that the processor overlaps
 #: and vectorises (the member loop inside the time loop has no branches, only selects).
 CHUNK = 256
+#: Floating-point liberty of the batch kernels: "contract" alone, so that the compiler may fuse a
+#: multiply and the add that follows into one fused multiply-add (rounded once instead of twice).
+#: Results move by an ulp or so (the twins agree to 1e-12); no other IEEE rule is relaxed (NaN, inf,
+#: signed zeros and the order of operations are kept). Measured on an AVX2 core (no AVX-512): 5-8 %
+#: fewer ns per member-step.
+BATCH_MATH = {"contract"}
 
 
-@nb.njit(cache=True, inline="always", error_model="numpy")
+@nb.njit(cache=True, inline="always", error_model="numpy", fastmath=BATCH_MATH)
 def expm1_scaled(y):
     """e^y - 1 by a degree-11 Taylor polynomial of e^(y/16) - 1 and four squarings ((1+p)^2 - 1 = p (2 + p)).
 
@@ -150,7 +156,7 @@ def expm1_scaled(y):
     return p
 
 
-@nb.njit(cache=True, inline="always", error_model="numpy")
+@nb.njit(cache=True, inline="always", error_model="numpy", fastmath=BATCH_MATH)
 def heat_capacity_fraction(x, rho_a):
     """c_a rho_a of EN 1993-1-2 eq (3.2a)-(3.2d) at ``x`` [C] as a fraction num / den [J/(m3 K)], selects only.
 
@@ -223,7 +229,7 @@ def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cro
             cross[m] = time_s[k] + (time_s[k + 1] - time_s[k]) * (thr[j] - cx[j]) / (cn[j] - cx[j])
 
 
-@nb.njit(cache=True, parallel=True, error_model="numpy")
+@nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
 def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s, rho_a,
                       threshold_C, query_idx, keep_history, n_threads):
     n_t = time_s.shape[0]
@@ -326,7 +332,7 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
     return peak, peak_t, cross, at_q, last, hist
 
 
-@nb.njit(cache=True, parallel=True, error_model="numpy")
+@nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
 def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, query_idx, keep_history,
                  n_threads):
     n_t = time_s.shape[0]

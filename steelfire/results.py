@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import json
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -53,7 +54,7 @@ def round_column(values, nd=2, as_array=False):
     be exact (2**52 and beyond): those few values are rounded by ``round`` itself, so the column
     equals the per-value form exactly.
     """
-    a = np.array([np.nan if v is None else v for v in values], dtype=float)
+    a = _float_column(values)
     scale = 10.0 ** nd
     with np.errstate(invalid="ignore", over="ignore"):
         y = a * scale
@@ -64,6 +65,13 @@ def round_column(values, nd=2, as_array=False):
     for i in np.flatnonzero(near_half | beyond):
         r[i] = round(float(a[i]), nd)
     return r if as_array else none_for_nan(r)
+
+
+def _float_column(values) -> np.ndarray:
+    """``values`` as a float array, NaN for None (a float array is taken as it is)."""
+    if isinstance(values, np.ndarray) and values.dtype == np.float64:
+        return values
+    return np.array([np.nan if v is None else v for v in values], dtype=float)
 
 
 def none_for_nan(a) -> list:
@@ -83,8 +91,7 @@ def sig_column(values, n=6, as_array=False):
     place, near a power of ten, zero or not finite go through :func:`_sig` itself, so the column
     equals the per-value form exactly.
     """
-    values = list(values)
-    a = np.array([np.nan if v is None else v for v in values], dtype=float)
+    a = _float_column(values)
     if not len(a):
         return a if as_array else []
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
@@ -102,8 +109,8 @@ def sig_column(values, n=6, as_array=False):
         exact = (np.isfinite(y) & (mag > 0) & (np.abs(nd) <= 22)
                  & (ya >= 10.0 ** (n - 1)) & (ya < 10.0 ** n - 0.5 - 1e-6)
                  & (np.abs(ya - np.floor(ya) - 0.5) >= 1e-6))
-    for i in np.flatnonzero(~exact):
-        v = _sig(values[i], n)  # None and NaN become None here
+    for i in np.flatnonzero(~exact & ~np.isnan(a)):  # NaN (None given) stays NaN: null
+        v = _sig(float(a[i]), n)
         r[i] = np.nan if v is None else v
     return r if as_array else none_for_nan(r)
 
@@ -113,43 +120,51 @@ def _column(rows, key):
 
 
 def _member_columns(ms) -> dict:
-    """The rounded columns of the member entries: float arrays (NaN for null) for the numbers,
-    lists of Python values for the rest."""
-    peak = round_column([m.peak_steel_temperature_C for m in ms], as_array=True)
-    crit = round_column([m.critical_temperature_C for m in ms], as_array=True)
-    t_std = round_column([m.standard_fire_time_to_critical_min for m in ms], as_array=True)
-    req_raw = [m.required_minutes for m in ms]
-    has_req = np.fromiter((q is not None for q in req_raw), dtype=bool, count=len(ms))
-    req = np.array([np.nan if q is None else q for q in req_raw], dtype=float)
-    meets = (np.isnan(t_std) | (t_std >= req)).tolist()  # NaN t_std: not reached within the horizon
+    """The rounded columns of the member entries of MemberResult objects ``ms``: float arrays (NaN
+    for null) for the numbers, lists of Python values for the rest (:func:`_rounded_columns`)."""
     eqs = [m.equivalence for m in ms]
-    return {
-        "name": [m.name for m in ms],
-        "kind": [m.kind for m in ms],
-        "peak_steel_temperature_C": peak,
-        "time_of_peak_steel_min": round_column([m.time_of_peak_steel_min for m in ms], as_array=True),
-        "critical_temperature_C": crit,
-        "passes": (peak <= crit).tolist(),
-        "margin_C": round_column([m.critical_temperature_C - m.peak_steel_temperature_C for m in ms],
-                                 as_array=True),
-        "standard_fire_time_to_critical_min": t_std,
-        "meets_required_period": [v if h else None for v, h in zip(meets, has_req.tolist())],
-        # additions to the contract
-        "section_factor_per_m": sig_column([m.section_factor_per_m for m in ms], as_array=True),
-        "protection": [m.protection for m in ms],
-        "thickness_mm": sig_column([m.thickness_mm for m in ms], as_array=True),
-        "shadow_factor": sig_column([m.shadow_factor for m in ms], as_array=True),
-        "utilisation": sig_column([m.utilisation for m in ms], as_array=True),
+    raw = {
+        "name": [m.name for m in ms], "kind": [m.kind for m in ms],
+        "peak_steel_temperature_C": [m.peak_steel_temperature_C for m in ms],
+        "time_of_peak_steel_min": [m.time_of_peak_steel_min for m in ms],
+        "critical_temperature_C": [m.critical_temperature_C for m in ms],
+        "margin_C": [m.critical_temperature_C - m.peak_steel_temperature_C for m in ms],
+        "standard_fire_time_to_critical_min": [m.standard_fire_time_to_critical_min for m in ms],
+        "section_factor_per_m": [m.section_factor_per_m for m in ms], "protection": [m.protection for m in ms],
+        "thickness_mm": [m.thickness_mm for m in ms], "shadow_factor": [m.shadow_factor for m in ms],
+        "utilisation": [m.utilisation for m in ms],
         "critical_temperature_source": [m.critical_temperature_source for m in ms],
-        "required_minutes": sig_column(req_raw, as_array=True),
-        "equivalence": eqs,
-        "eq.annex_f_min": round_column(_column(eqs, "annex_f_min"), as_array=True),
-        "eq.cib_w14_min": round_column(_column(eqs, "cib_w14_min"), as_array=True),
-        "eq.equal_temperature_min": round_column(_column(eqs, "equal_temperature_min"), as_array=True),
-        "eq.annex_f_k_c": sig_column(_column(eqs, "annex_f_k_c"), as_array=True),
-        "eq.annex_f_small_compartment_min": round_column(_column(eqs, "annex_f_small_compartment_min"),
-                                                         as_array=True),
+        "required_minutes": [m.required_minutes for m in ms],
     }
+    for k in _EQ_NUMBER_KEYS:
+        raw["eq." + k] = _column(eqs, k)
+    c = _rounded_columns(raw)
+    c["equivalence"] = eqs
+    return c
+
+
+#: The number keys of a member's equivalence entry, in document order.
+_EQ_NUMBER_KEYS = ("annex_f_min", "cib_w14_min", "equal_temperature_min", "annex_f_k_c",
+                   "annex_f_small_compartment_min")
+
+
+def _rounded_columns(raw) -> dict:
+    """The member entries' columns rounded as the document carries them (0.01, or six significant
+    figures for the keys of _SIG6_KEYS), with the verdicts derived from the rounded numbers
+    (``passes``, ``meets_required_period``), as :attr:`MemberResult.passes` and
+    :attr:`MemberResult.meets_required_period` derive them. ``raw``: key -> the unrounded values
+    (lists, None for null, or float arrays, NaN for null), equivalence numbers as ``eq.<key>``."""
+    c = {k: raw[k] for k in _TEXT_KEYS}
+    for k, v in raw.items():
+        if k not in _TEXT_KEYS:
+            c[k] = sig_column(v, as_array=True) if k in _SIG6_KEYS else round_column(v, as_array=True)
+    req_raw = raw["required_minutes"]
+    req = _float_column(req_raw)
+    t_std = c["standard_fire_time_to_critical_min"]
+    meets = (np.isnan(t_std) | (t_std >= req)).tolist()  # NaN t_std: not reached within the horizon
+    c["passes"] = (c["peak_steel_temperature_C"] <= c["critical_temperature_C"]).tolist()
+    c["meets_required_period"] = [None if q != q else v for v, q in zip(meets, req.tolist())]  # NaN: no period
+    return c
 
 
 #: Keys of a member entry, in document order, up to its equivalence entry.
@@ -193,8 +208,9 @@ _SIG6_KEYS = ("section_factor_per_m", "thickness_mm", "shadow_factor", "utilisat
               "eq.annex_f_k_c")
 
 
-#: String columns of a member entry.
+#: String columns of a member entry, and the types their values may have.
 _TEXT_KEYS = ("name", "kind", "protection", "critical_temperature_source")
+_TEXT_TYPES = frozenset({str, type(None)})
 
 
 def members_json_compact(members) -> str:
@@ -207,25 +223,10 @@ def members_json_compact(members) -> str:
     character (tests/test_jsontext.py). Members with a sizing entry, and any value the kernel cannot
     vouch for, go through ``json.dumps``.
     """
-    from .jsontext import Numbers, objects_json
-
     ms = list(members)
-    compact = {"separators": (",", ":"), "allow_nan": False}
     if not ms or any(m.sizing is not None for m in ms):
-        return json.dumps(member_dicts(ms), **compact)
+        return json.dumps(member_dicts(ms), **_COMPACT)
     c = _member_columns(ms)
-    esc = json.encoder.encode_basestring_ascii
-    cols = {}
-    for k in _MEMBER_KEYS:
-        col = c[k]
-        if k in _TEXT_KEYS:
-            if not all(v is None or type(v) is str for v in col):
-                return json.dumps(member_dicts(ms), **compact)
-            cols[k] = ["null" if v is None else esc(v) for v in col]
-        elif k in ("passes", "meets_required_period"):
-            cols[k] = ["null" if v is None else ("true" if v else "false") for v in col]
-        else:
-            cols[k] = Numbers(col, sig=6 if k in _SIG6_KEYS else 0)
     eqs = c["equivalence"]
     has_eq = [i for i, e in enumerate(eqs) if e is not None]
     verdicts = {}  # the unconservative/resists/meets_required part of an entry, by value
@@ -239,28 +240,73 @@ def members_json_compact(members) -> str:
         key = (tuple(uncons), tuple(resists.items()), None if meets is None else tuple(meets.items()))
         t = verdicts.get(key) if plain else None
         if t is None:
-            part = {"unconservative": list(uncons), "resists": dict(resists),
-                    "meets_required": None if meets is None else dict(meets)}
-            t = json.dumps(part, **compact)[1:-1]
+            t = _verdict_json(uncons, resists, meets)
             if plain:
                 verdicts[key] = t
         return t
 
-    eq_cols = {k: Numbers(c["eq." + k][has_eq]) for k in ("annex_f_min", "cib_w14_min", "equal_temperature_min")}
+    text = _columns_json_compact(c, has_eq, [verdict_text(eqs[i]) for i in has_eq])
+    return json.dumps(member_dicts(ms), **_COMPACT) if text is None else text
+
+
+_COMPACT = {"separators": (",", ":"), "allow_nan": False}
+
+
+def _verdict_json(uncons, resists, meets) -> str:
+    """The text of an equivalence entry from its "unconservative" key's value to the end of its
+    "meets_required" value: ``[...],"resists":{...},"meets_required":...``."""
+    part = {"unconservative": list(uncons), "resists": dict(resists),
+            "meets_required": None if meets is None else dict(meets)}
+    return json.dumps(part, **_COMPACT)[len('{"unconservative":'):-1]
+
+
+def _columns_json_compact(c, has_eq, verdict_texts):
+    """The compact JSON list of member entries from their rounded columns ``c``
+    (:func:`_rounded_columns`); ``has_eq``: the members with an equivalence entry, ``verdict_texts``
+    their verdicts' text (:func:`_verdict_json`). None where a value is one the writer does not vouch
+    for (the caller then uses json.dumps)."""
+    from .jsontext import Numbers, objects_json
+
+    n = len(c["name"])
+    esc = json.encoder.encode_basestring_ascii
+    cols = {}
+    for k in _MEMBER_KEYS:
+        col = c[k]
+        if k in _TEXT_KEYS:
+            if not set(map(type, col)) <= _TEXT_TYPES:
+                return None
+            if k == "name":
+                cols[k] = ["null" if v is None else esc(v) for v in col]
+            else:  # few distinct values: each escaped once
+                text = {v: "null" if v is None else esc(v) for v in set(col)}
+                cols[k] = [text[v] for v in col]
+        elif k in ("passes", "meets_required_period"):
+            cols[k] = ["null" if v is None else ("true" if v else "false") for v in col]
+        else:
+            cols[k] = Numbers(col, sig=6 if k in _SIG6_KEYS else 0)
+    every = len(has_eq) == n
+
+    def eq_numbers(k, sig=0):
+        col = c["eq." + k]
+        return Numbers(col if every else col[has_eq], sig=sig)
+
+    eq_cols = {k: eq_numbers(k) for k in ("annex_f_min", "cib_w14_min", "equal_temperature_min")}
     # the value of "unconservative" carries "resists" and "meets_required" after it, keys included
-    eq_cols["unconservative"] = [verdict_text(eqs[i])[len('"unconservative":'):] for i in has_eq]
-    eq_cols["annex_f_k_c"] = Numbers(c["eq.annex_f_k_c"][has_eq], sig=6)
-    eq_cols["annex_f_small_compartment_min"] = Numbers(c["eq.annex_f_small_compartment_min"][has_eq])
+    eq_cols["unconservative"] = verdict_texts
+    eq_cols["annex_f_k_c"] = eq_numbers("annex_f_k_c", sig=6)
+    eq_cols["annex_f_small_compartment_min"] = eq_numbers("annex_f_small_compartment_min")
     eq_text = objects_json(eq_cols, row_separator="\n") if has_eq else ""
     if eq_text is None:
-        return json.dumps(member_dicts(ms), **compact)
-    cols["equivalence"] = ["null"] * len(ms)
-    for i, t in zip(has_eq, eq_text.split("\n")):
-        cols["equivalence"][i] = t
+        return None
+    eq_rows = eq_text.split("\n") if has_eq else []
+    if every:
+        cols["equivalence"] = eq_rows
+    else:
+        cols["equivalence"] = ["null"] * n
+        for i, t in zip(has_eq, eq_rows):
+            cols["equivalence"][i] = t
     text = objects_json(cols)
-    if text is None:
-        return json.dumps(member_dicts(ms), **compact)
-    return "[" + text + "]"
+    return None if text is None else "[" + text + "]"
 
 
 def _sizing_dict(s):
@@ -373,6 +419,197 @@ class MemberResult:
         return member_dicts([self])[0]
 
 
+#: The verdict bits of one member's equivalence entry, in the order of :data:`EquivalenceColumns.BITS`.
+_VERDICT_BITS = ("has_annex_f", "has_cib_w14", "has_equal_temperature", "uncons_annex_f", "uncons_cib_w14",
+                 "has_required", "meets_annex_f", "meets_cib_w14", "meets_equal_temperature",
+                 "meets_equal_temperature_given", "resists_annex_f", "resists_cib_w14", "resists_equal_temperature")
+
+
+class EquivalenceColumns:
+    """The members' equivalence entries by column: the routes' times as float arrays (NaN for null)
+    and, per member, a small integer naming its verdicts (which routes are unconservative, which
+    stay within the required period, which the member resists); ``verdicts[code]`` spells one out
+    as (unconservative routes, resists pairs, meets_required pairs or None).
+
+    A schedule has few distinct verdicts however many members it holds, so the verdicts are worded
+    (and written to JSON) once per distinct code, not once per member.
+    """
+
+    BITS = _VERDICT_BITS
+
+    def __init__(self, annex_f_min, cib_w14_min, equal_temperature_min, annex_f_k_c, annex_f_small_compartment_min,
+                 code, verdicts):
+        self.annex_f_min = annex_f_min
+        self.cib_w14_min = cib_w14_min
+        self.equal_temperature_min = equal_temperature_min
+        self.annex_f_k_c = annex_f_k_c
+        self.annex_f_small_compartment_min = annex_f_small_compartment_min
+        self.code = code
+        self.verdicts = verdicts
+
+    def __len__(self):
+        return len(self.code)
+
+    def unconservative_any(self) -> np.ndarray:
+        """Per member: is any route flagged unconservative."""
+        flagged = np.array([bool(v[0]) for v in self.verdicts], dtype=bool)
+        return flagged[self.code] if len(self.code) else np.zeros(0, dtype=bool)
+
+    def entries(self) -> list:
+        """One dict per member, the form of ``MemberResult.equivalence``."""
+        a_l, w_l, d_l, kc_l, small_l = (none_for_nan(v) for v in (
+            self.annex_f_min, self.cib_w14_min, self.equal_temperature_min, self.annex_f_k_c,
+            self.annex_f_small_compartment_min))
+        verdicts = self.verdicts
+        out = []
+        for ai, wi, di, kci, si, c in zip(a_l, w_l, d_l, kc_l, small_l, self.code.tolist()):
+            uncons, resists, meets = verdicts[c]
+            out.append({"annex_f_min": ai, "cib_w14_min": wi, "equal_temperature_min": di,
+                        "unconservative": list(uncons), "resists": dict(resists),
+                        "annex_f_small_compartment_min": si, "meets_required": None if meets is None else dict(meets),
+                        "annex_f_k_c": kci, "equal_temperature_beyond_horizon": di is None})
+        return out
+
+
+class MemberTable:
+    """The members' verdicts of one run by column, as :func:`steelfire.analysis.analyse` computes
+    them: the source of the MemberResult objects (:meth:`members`) and of the document's member
+    entries (:meth:`columns`), so that a long schedule needs neither an object nor a dict per member
+    to be judged and written.
+
+    Lists hold the members' own values (None where absent); arrays the computed ones:
+    ``critical_temperature_C``, ``peak_steel_temperature_C``, ``time_of_peak_steel_min``,
+    ``standard_fire_time_to_critical_min`` (NaN: not reached within the horizon); ``histories`` the
+    design-fire steel temperatures (time x member) or None; ``equivalence`` an
+    :class:`EquivalenceColumns`.
+    """
+
+    def __init__(self, *, name, kind, section_factor_per_m, protection, thickness_mm, critical_temperature_C,
+                 critical_temperature_source, peak_steel_temperature_C, time_of_peak_steel_min,
+                 standard_fire_time_to_critical_min, required_minutes, shadow_factor, utilisation, histories,
+                 equivalence):
+        self.name = name
+        self.kind = kind
+        self.section_factor_per_m = section_factor_per_m
+        self.protection = protection
+        self.thickness_mm = thickness_mm
+        self.critical_temperature_C = np.asarray(critical_temperature_C, dtype=float)
+        self.critical_temperature_source = critical_temperature_source
+        self.peak_steel_temperature_C = np.asarray(peak_steel_temperature_C, dtype=float)
+        self.time_of_peak_steel_min = np.asarray(time_of_peak_steel_min, dtype=float)
+        self.standard_fire_time_to_critical_min = np.asarray(standard_fire_time_to_critical_min, dtype=float)
+        self.required_minutes = required_minutes
+        self.shadow_factor = shadow_factor
+        self.utilisation = utilisation
+        self.histories = histories
+        self.equivalence = equivalence
+        self._columns = None  # the rounded columns, made once
+
+    def __len__(self):
+        return len(self.name)
+
+    def members(self) -> list:
+        """One :class:`MemberResult` per member (histories copied out of the table)."""
+        n = len(self)
+        eqs = self.equivalence.entries() if self.equivalence is not None else [None] * n
+        hist = self.histories
+        return [
+            MemberResult(name=nm, kind=k, section_factor_per_m=sf, protection=p, thickness_mm=d,
+                         critical_temperature_C=cr, critical_temperature_source=src, peak_steel_temperature_C=pk,
+                         time_of_peak_steel_min=pt, standard_fire_time_to_critical_min=tc, required_minutes=rq,
+                         shadow_factor=ksh, utilisation=mu,
+                         steel_temperature_C=None if hist is None else hist[:, i].copy(), equivalence=e)
+            for i, (nm, k, sf, p, d, cr, src, pk, pt, tc, rq, ksh, mu, e) in enumerate(zip(
+                self.name, self.kind, self.section_factor_per_m, self.protection, self.thickness_mm,
+                self.critical_temperature_C.tolist(), self.critical_temperature_source,
+                self.peak_steel_temperature_C.tolist(), self.time_of_peak_steel_min.tolist(),
+                none_for_nan(self.standard_fire_time_to_critical_min), self.required_minutes, self.shadow_factor,
+                self.utilisation, eqs))]
+
+    def columns(self) -> dict:
+        """The rounded columns of the member entries (equal to those of :meth:`members`' objects)."""
+        if self._columns is None:
+            self._columns = self._rounded()
+        return self._columns
+
+    def _rounded(self) -> dict:
+        raw = {"name": self.name, "kind": self.kind, "peak_steel_temperature_C": self.peak_steel_temperature_C,
+               "time_of_peak_steel_min": self.time_of_peak_steel_min,
+               "critical_temperature_C": self.critical_temperature_C,
+               "margin_C": self.critical_temperature_C - self.peak_steel_temperature_C,
+               "standard_fire_time_to_critical_min": self.standard_fire_time_to_critical_min,
+               "section_factor_per_m": self.section_factor_per_m, "protection": self.protection,
+               "thickness_mm": self.thickness_mm, "shadow_factor": self.shadow_factor,
+               "utilisation": self.utilisation, "critical_temperature_source": self.critical_temperature_source,
+               "required_minutes": self.required_minutes}
+        e = self.equivalence
+        for k in _EQ_NUMBER_KEYS:
+            raw["eq." + k] = getattr(e, k) if e is not None else np.full(len(self), np.nan)
+        return _rounded_columns(raw)
+
+    def ok(self) -> np.ndarray:
+        """Per member: passes the design fire and meets its required period (MemberResult.ok)."""
+        c = self.columns()
+        short = np.array([q is False for q in c["meets_required_period"]], dtype=bool)
+        return np.array(c["passes"], dtype=bool) & ~short
+
+    def json_compact(self) -> str:
+        """The compact JSON list of the member entries (as :func:`members_json_compact` of :meth:`members`)."""
+        c = self.columns()
+        e = self.equivalence
+        if e is None:
+            text = _columns_json_compact(c, [], [])
+        else:
+            texts = [_verdict_json(*v) for v in e.verdicts]
+            text = _columns_json_compact(c, range(len(self)), [texts[k] for k in e.code.tolist()])
+        return json.dumps(member_dicts(self.members()), **_COMPACT) if text is None else text
+
+
+class MemberResults(Sequence):
+    """The member results of a run: a sequence of :class:`MemberResult`, made from the run's
+    :class:`MemberTable` when first asked for.
+
+    Until then :attr:`table` is that table, and the result document is written from its columns;
+    once the objects exist they are the results (a change made to one shows in the document) and
+    :attr:`table` is None.
+    """
+
+    def __init__(self, table: MemberTable):
+        self._table = table
+        self._items = None
+
+    @property
+    def table(self):
+        return self._table if self._items is None else None
+
+    def _list(self) -> list:
+        if self._items is None:
+            self._items = self._table.members()
+        return self._items
+
+    def __len__(self):
+        return len(self._table) if self._items is None else len(self._items)
+
+    def __getitem__(self, i):
+        return self._list()[i]
+
+    def __iter__(self):
+        return iter(self._list())
+
+    def __eq__(self, other):
+        if isinstance(other, MemberResults):
+            other = other._list()
+        return isinstance(other, (list, tuple)) and self._list() == list(other)
+
+    def __repr__(self):
+        return f"MemberResults({self._list()!r})"
+
+
+def _table_of(members):
+    """The MemberTable the document can be written from, or None (objects given or made)."""
+    return members.table if isinstance(members, MemberResults) else None
+
+
 @dataclass
 class AnalysisResult:
     """Everything one run of a case produced."""
@@ -389,7 +626,8 @@ class AnalysisResult:
 
     @property
     def all_ok(self) -> bool:
-        return all(m.ok for m in self.members)
+        t = _table_of(self.members)
+        return bool(np.all(t.ok())) if t is not None else all(m.ok for m in self.members)
 
     def to_dict(self) -> dict:
         return self._document(member_dicts(self.members))
@@ -400,10 +638,13 @@ class AnalysisResult:
         The member entries come from :func:`members_json_compact` (no dict per member); the rest of
         the document goes through ``json.dumps``. Same text, character for character.
         """
-        compact = {"separators": (",", ":"), "allow_nan": False}
+        t = _table_of(self.members)
         parts = []
         for key, value in self._document(None).items():
-            text = members_json_compact(self.members) if key == "members" else json.dumps(value, **compact)
+            if key == "members":
+                text = t.json_compact() if t is not None else members_json_compact(self.members)
+            else:
+                text = json.dumps(value, **_COMPACT)
             parts.append(json.dumps(key) + ":" + text)
         return "{" + ",".join(parts) + "}"
 
