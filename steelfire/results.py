@@ -123,19 +123,8 @@ def _member_columns(ms) -> dict:
     """The rounded columns of the member entries of MemberResult objects ``ms``: float arrays (NaN
     for null) for the numbers, lists of Python values for the rest (:func:`_rounded_columns`)."""
     eqs = [m.equivalence for m in ms]
-    raw = {
-        "name": [m.name for m in ms], "kind": [m.kind for m in ms],
-        "peak_steel_temperature_C": [m.peak_steel_temperature_C for m in ms],
-        "time_of_peak_steel_min": [m.time_of_peak_steel_min for m in ms],
-        "critical_temperature_C": [m.critical_temperature_C for m in ms],
-        "margin_C": [m.critical_temperature_C - m.peak_steel_temperature_C for m in ms],
-        "standard_fire_time_to_critical_min": [m.standard_fire_time_to_critical_min for m in ms],
-        "section_factor_per_m": [m.section_factor_per_m for m in ms], "protection": [m.protection for m in ms],
-        "thickness_mm": [m.thickness_mm for m in ms], "shadow_factor": [m.shadow_factor for m in ms],
-        "utilisation": [m.utilisation for m in ms],
-        "critical_temperature_source": [m.critical_temperature_source for m in ms],
-        "required_minutes": [m.required_minutes for m in ms],
-    }
+    raw = {k: [getattr(m, k) for m in ms] for k in _RAW_KEYS}
+    raw["margin_C"] = [m.critical_temperature_C - m.peak_steel_temperature_C for m in ms]
     for k in _EQ_NUMBER_KEYS:
         raw["eq." + k] = _column(eqs, k)
     c = _rounded_columns(raw)
@@ -143,6 +132,11 @@ def _member_columns(ms) -> dict:
     return c
 
 
+#: The member values the document's entries are made from (attributes of MemberResult and of
+#: MemberTable alike); margin_C and the equivalence numbers come besides.
+_RAW_KEYS = ("name", "kind", "peak_steel_temperature_C", "time_of_peak_steel_min", "critical_temperature_C",
+             "standard_fire_time_to_critical_min", "section_factor_per_m", "protection", "thickness_mm",
+             "shadow_factor", "utilisation", "critical_temperature_source", "required_minutes")
 #: The number keys of a member's equivalence entry, in document order.
 _EQ_NUMBER_KEYS = ("annex_f_min", "cib_w14_min", "equal_temperature_min", "annex_f_k_c",
                    "annex_f_small_compartment_min")
@@ -419,33 +413,31 @@ class MemberResult:
         return member_dicts([self])[0]
 
 
-#: The verdict bits of one member's equivalence entry, in the order of :data:`EquivalenceColumns.BITS`.
+#: The verdict bits of one member's equivalence entry (EquivalenceColumns.code), lowest first.
 _VERDICT_BITS = ("has_annex_f", "has_cib_w14", "has_equal_temperature", "uncons_annex_f", "uncons_cib_w14",
                  "has_required", "meets_annex_f", "meets_cib_w14", "meets_equal_temperature",
                  "meets_equal_temperature_given", "resists_annex_f", "resists_cib_w14", "resists_equal_temperature")
 
 
+@dataclass(eq=False)
 class EquivalenceColumns:
     """The members' equivalence entries by column: the routes' times as float arrays (NaN for null)
-    and, per member, a small integer naming its verdicts (which routes are unconservative, which
-    stay within the required period, which the member resists); ``verdicts[code]`` spells one out
-    as (unconservative routes, resists pairs, meets_required pairs or None).
+    and, per member, a small integer ``code`` naming its verdicts (which routes are unconservative,
+    which stay within the required period, which the member resists; bits :data:`_VERDICT_BITS`);
+    ``verdicts[code]`` spells one out as (unconservative routes, resists pairs, meets_required
+    pairs or None).
 
     A schedule has few distinct verdicts however many members it holds, so the verdicts are worded
     (and written to JSON) once per distinct code, not once per member.
     """
 
-    BITS = _VERDICT_BITS
-
-    def __init__(self, annex_f_min, cib_w14_min, equal_temperature_min, annex_f_k_c, annex_f_small_compartment_min,
-                 code, verdicts):
-        self.annex_f_min = annex_f_min
-        self.cib_w14_min = cib_w14_min
-        self.equal_temperature_min = equal_temperature_min
-        self.annex_f_k_c = annex_f_k_c
-        self.annex_f_small_compartment_min = annex_f_small_compartment_min
-        self.code = code
-        self.verdicts = verdicts
+    annex_f_min: np.ndarray
+    cib_w14_min: np.ndarray
+    equal_temperature_min: np.ndarray
+    annex_f_k_c: np.ndarray
+    annex_f_small_compartment_min: np.ndarray
+    code: np.ndarray
+    verdicts: list
 
     def __len__(self):
         return len(self.code)
@@ -533,15 +525,8 @@ class MemberTable:
         return self._columns
 
     def _rounded(self) -> dict:
-        raw = {"name": self.name, "kind": self.kind, "peak_steel_temperature_C": self.peak_steel_temperature_C,
-               "time_of_peak_steel_min": self.time_of_peak_steel_min,
-               "critical_temperature_C": self.critical_temperature_C,
-               "margin_C": self.critical_temperature_C - self.peak_steel_temperature_C,
-               "standard_fire_time_to_critical_min": self.standard_fire_time_to_critical_min,
-               "section_factor_per_m": self.section_factor_per_m, "protection": self.protection,
-               "thickness_mm": self.thickness_mm, "shadow_factor": self.shadow_factor,
-               "utilisation": self.utilisation, "critical_temperature_source": self.critical_temperature_source,
-               "required_minutes": self.required_minutes}
+        raw = {k: getattr(self, k) for k in _RAW_KEYS}
+        raw["margin_C"] = self.critical_temperature_C - self.peak_steel_temperature_C
         e = self.equivalence
         for k in _EQ_NUMBER_KEYS:
             raw["eq." + k] = getattr(e, k) if e is not None else np.full(len(self), np.nan)

@@ -99,6 +99,22 @@ def equivalence_twin(members, annex_f, cib, equal_time_s, critical_time_s, horiz
     return out
 
 
+def routes_of(members, entries):
+    """The Annex F (per group) and CIB W14 times that the equivalence ``entries`` carry, in the form
+    :func:`equivalence_twin` takes them ({} and None where the case has no compartment)."""
+    annex_f = {}
+    cib = None
+    if entries and entries[0]["annex_f_min"] is not None:
+        for m, e in zip(members, entries):
+            small = e["annex_f_small_compartment_min"]
+            annex_f[m.protected] = SimpleNamespace(
+                t_e_min=e["annex_f_min"], k_c=e["annex_f_k_c"],
+                small_compartment=None if small is None else SimpleNamespace(t_e_min=small))
+            if m.protected:
+                cib = SimpleNamespace(t_e_min=e["cib_w14_min"])
+    return annex_f, cib
+
+
 # ------------------------------------------------------------------------------------------------
 # rounding columns
 
@@ -167,16 +183,7 @@ def test_equivalence_equals_per_member_twin_on_bundled_cases(case):
     cross[1::4] = np.nan
     got = analysis.equivalence_routes(c, fire, c.members, equal_t, [], cross)["members"]
     # the routes' times of this case, then the verdicts by the twin
-    annex_f = {}
-    cib = None
-    if got and got[0]["annex_f_min"] is not None:
-        for m, e in zip(c.members, got):
-            small = e["annex_f_small_compartment_min"]
-            annex_f[m.protected] = SimpleNamespace(
-                t_e_min=e["annex_f_min"], k_c=e["annex_f_k_c"],
-                small_compartment=None if small is None else SimpleNamespace(t_e_min=small))
-            if m.protected:
-                cib = SimpleNamespace(t_e_min=e["cib_w14_min"])
+    annex_f, cib = routes_of(c.members, got)
     want = equivalence_twin(c.members, annex_f, cib, equal_t, cross, c.analysis.standard_horizon_min)
     assert got == want
 
