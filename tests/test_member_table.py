@@ -74,6 +74,7 @@ def test_large_schedule_columns_equal_objects():
     t = res.fire.time_s
     for j in (0, 7, len(members) - 1):
         h = res.members[j].steel_temperature_C
+        # steel starts at 20 C (EN 1993-1-2 4.2.5 with the ambient 20 C of EN 1991-1-2 3.2.1: common practice)
         assert h.shape == t.shape and h[0] == 20.0
         assert max(h) == pytest.approx(res.members[j].peak_steel_temperature_C, abs=1e-9)
 
