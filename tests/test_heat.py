@@ -364,3 +364,95 @@ def test_every_kernel_can_be_cached(tmp_path):
     index = {p.name.split("-")[0] for p in tmp_path.rglob("*.nbi")}
     for kernel in ("heat._protected_chunks", "heat._bare_chunks", "jsontext._write_objects"):
         assert kernel in index, (kernel, sorted(index))
+
+
+# ---- the batch kernels' bookkeeping: chunks handed out as threads finish, first crossing ----------
+
+def _batch_all(t, g, n, rng, thr=None):
+    """Every kind of member the batch kernels take (bare, protected with constant and tabulated
+    conductivity, moisture), ``n`` of them, against one fire; returns the six outputs with histories."""
+    kind = np.arange(n) % 4
+    bare = kind == 0
+    amv = rng.uniform(40.0, 300.0, n)
+    d_p = np.where(bare, 1.0, rng.uniform(0.01, 0.04, n))
+    rho_p = np.where(kind == 2, 1300.0, 800.0)
+    c_p = np.where(kind == 2, 1200.0, 1700.0)
+    lam_T = np.tile([20.0, 300.0, 600.0], (n, 1))
+    lam_v = np.where((kind == 2)[:, None], np.tile([0.1, 0.14, 0.2], (n, 1)), 0.2)
+    lam_n = np.where(kind == 2, 3, 1)
+    delay = np.where(kind == 3, 300.0, 0.0)
+    thr = rng.uniform(300.0, 700.0, n) if thr is None else thr
+    q = np.array([1, len(t) // 2, len(t) - 1], dtype=np.int64)
+    return heat.batch(t, g, bare, amv, 25.0, EPS, RHO_A, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay, thr, q,
+                      True)
+
+
+@pytest.mark.parametrize("n", [1, 3, heat.CHUNK - 1, heat.CHUNK + 1, 5 * heat.CHUNK + 17])
+def test_batch_same_on_one_and_two_threads(n):
+    """Chunks are handed out as threads finish (an atomic counter): whichever thread takes which
+    chunk, every member is stepped exactly once and the outputs are those of one thread, bit for bit
+    (an unvisited chunk would leave the outputs' uninitialised memory, a doubled one is harmless but
+    is caught by the equal histories). More threads than chunks (n = 1, 3) included."""
+    import numba
+
+    t = time_grid(90 * 60.0, 5.0)
+    g = nominal.standard_fire(t)
+    before = numba.get_num_threads()
+    outs = []
+    try:
+        for threads in sorted({1, min(2, numba.config.NUMBA_NUM_THREADS)}):
+            numba.set_num_threads(threads)
+            outs.append(_batch_all(t, g, n, np.random.default_rng(n)))
+    finally:
+        numba.set_num_threads(before)
+    for a, b in zip(outs[0], outs[-1]):
+        np.testing.assert_array_equal(a, b)
+    peak, _, _, _, _, hist = outs[0]
+    assert np.all(np.isfinite(hist)) and np.array_equal(peak, hist.max(axis=0))
+
+
+@pytest.mark.parametrize("threads,n_m", [(1, 1), (1, 300), (2, 1), (2, 129), (2, 4000), (3, 1000)])
+def test_chunking_covers_every_member(threads, n_m):
+    """The chunks of _chunking cover members 0..n-1 once, none wider than CHUNK, and their count is
+    a multiple of the threads when there are enough members (equal shares for equal cores)."""
+    n_chunks, width = heat._chunking(n_m, threads)
+    covered = np.concatenate([np.arange(c * width, min((c + 1) * width, n_m)) for c in range(n_chunks)])
+    assert np.array_equal(covered, np.arange(n_m))
+    assert width <= heat.CHUNK and all(c * width < n_m for c in range(n_chunks))
+    if n_m >= threads * heat.CHUNK:
+        assert n_chunks % threads == 0
+
+
+def test_first_crossing_after_a_dip():
+    """A fire that heats, cools and heats again (a tabulated curve can): a threshold above the first
+    peak is first reached in the second rise, after the steel has cooled; one below it in the first
+    rise, and never again counted. The crossing time is the first step's linear interpolation, read
+    off the kernels' own histories (the definition in heat.batch), also where that step starts
+    below the earlier peak (a threshold just above it)."""
+    t = time_grid(210 * 60.0, 5.0)
+    knots_min = [0.0, 20.0, 90.0, 150.0, 210.0]
+    knots_C = [20.0, 800.0, 20.0, 1000.0, 1000.0]      # invented curve: a fire, burnout, a second fire
+    g = np.interp(t / 60.0, knots_min, knots_C)
+    n = 8
+    hist = _batch_all(t, g, n, np.random.default_rng(11), thr=np.full(n, 1.0))[5]
+    at_100 = int(np.searchsorted(t, 100 * 60.0))
+    first_peak = hist[:at_100].max(axis=0)
+    assert np.sum(hist[at_100] < first_peak - 20.0) >= 3   # the steel cooled between the two fires
+    second_rise = straddle = 0
+    for offset in (5.0, 0.01, -50.0):
+        thr = first_peak + offset
+        cross = _batch_all(t, g, n, np.random.default_rng(11), thr=thr)[2]
+        for m in range(n):
+            h = hist[:, m]
+            above = np.nonzero(h >= thr[m])[0]
+            if len(above) == 0:
+                assert np.isnan(cross[m])
+                continue
+            j = above[0]
+            expect = t[j - 1] + (t[j] - t[j - 1]) * (thr[m] - h[j - 1]) / (h[j] - h[j - 1])
+            assert cross[m] == pytest.approx(expect, rel=1e-12)
+            second_rise += offset > 0 and t[j] > 100 * 60.0
+            straddle += bool(h[j - 1] < first_peak[m] <= thr[m] <= h[j])
+    assert second_rise == 2 * n   # every member reaches the higher thresholds in the second fire
+    # and some step into the crossing starts below the earlier peak (not at the running maximum)
+    assert straddle >= 2
