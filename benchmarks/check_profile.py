@@ -8,8 +8,9 @@ Writes an invented schedule case into a temporary folder (the compartment and fi
 protected ones with constant and tabulated conductivity and with moisture), then measures
 
 * the whole command, ``python -m steelfire check CASE --json`` in a new process (warm numba
-  cache), and the same command on a one-member case of the same fire: the fixed start-up
-  (interpreter, imports, numba loading its cached kernels);
+  cache, scipy not importable, as ``pip install .`` installs the package), and the same command
+  on a one-member case of the same fire: the fixed start-up (interpreter, imports, numba loading
+  its cached kernels);
 * inside one process, after a one-member run has paid the start-up: ``steelfire.cli.main`` on the
   large case, split into loading and validation, the heat-transfer kernels (every call of
   ``steelfire.heat.batch``), the rest of the analysis, and building and encoding the JSON.
@@ -118,7 +119,11 @@ _WARM_ENV = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECOD
 
 
 def whole_command(case: Path, repeats: int) -> float:
-    cmd = [sys.executable, "-m", "steelfire", "check", str(case), "--json"]
+    """Median wall time of ``steelfire check CASE --json`` in a new process, as installed for use
+    (no scipy: see ``run.WITHOUT_SCIPY``)."""
+    from run import WITHOUT_SCIPY
+
+    cmd = [sys.executable, "-c", WITHOUT_SCIPY, "check", str(case), "--json"]
     walls = []
     for _ in range(repeats):
         t = time.perf_counter()
