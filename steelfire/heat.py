@@ -241,22 +241,31 @@ def _outputs(n_m, n_q, n_t, keep_history):
 @nb.njit(cache=True, inline="always")
 def _chunk_state(w):
     """Per-member state of a chunk: temperature (20 C), peak, its step, the step of the first crossing
-    of the threshold and the temperatures either side of it (+inf: none yet; see :func:`_crossing`),
+    of the threshold and the temperatures either side of it (+inf: none yet; see :func:`_track`),
     the last increment."""
     return (np.full(w, 20.0), np.full(w, 20.0), np.zeros(w, dtype=np.int64), np.full(w, np.inf),
             np.full(w, np.inf), np.full(w, np.inf), np.zeros(w))
 
 
 @nb.njit(cache=True, inline="always")
-def _crossing(first, i_f, before, after, ci, cx, cn):
-    """The first crossing of the threshold, as minima: ``first`` (the step ends at or above the
-    threshold while the peak before it was below) is true in at most one step of a member, so that
-    the minimum of (step, temperatures either side) over the steps where it is true, +inf elsewhere,
-    is that step's. Written as minima of selects, the pass stores whole vectors where "update only
-    where" compiles to masked stores (on an AVX2 core: one masked store left instead of three, and
-    5-10 % fewer ns per protected member-step in interleaved timings)."""
+def _track(i, i_f, before, new, thr, pk, pki, ci, cx, cn):
+    """After step ``i`` (``i_f`` = float(i)) took a member from ``before`` to ``new`` [C]: its peak
+    ``pk`` and the step ``pki`` that first reached it, and the first crossing of the threshold
+    ``thr`` (step ``ci``, temperatures ``cx``, ``cn`` either side; +inf: none yet). Returns the
+    five updated.
+
+    The crossing is kept as minima: ``first`` (the step ends at or above the threshold while the
+    peak before it was below) is true in at most one step of a member, so the minimum of (step,
+    temperatures either side) over the steps where it is true, +inf elsewhere, is that step's.
+    Written as minima of selects, the pass stores whole vectors where "update only where" compiles
+    to masked stores (on an AVX2 core: one masked store left instead of three, and 5-10 % fewer ns
+    per protected member-step in interleaved timings)."""
+    first = (new >= thr) & (pk < thr)
     inf = np.inf
-    return min(ci, i_f if first else inf), min(cx, before if first else inf), min(cn, after if first else inf)
+    ci = min(ci, i_f if first else inf)
+    cx = min(cx, before if first else inf)
+    cn = min(cn, new if first else inf)
+    return i + 1 if new > pk else pki, max(pk, new), ci, cx, cn
 
 
 @nb.njit(cache=True, inline="always")
@@ -379,11 +388,8 @@ def _protected_chunks(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
                     new = (x if at else MOISTURE_PLATEAU_C) if hold else new
                     dl[j] = new - x
                     th[j] = new
-                    top = pk[j]                                        # the peak before this step
-                    first = (new >= thr[j]) & (top < thr[j])
-                    ci[j], cx[j], cn[j] = _crossing(first, i_f, x, new, ci[j], cx[j], cn[j])
-                    pki[j] = i + 1 if new > top else pki[j]
-                    pk[j] = max(top, new)
+                    pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j],
+                                                                cn[j])
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
             c = _take_ticket(tickets)
@@ -425,11 +431,8 @@ def _bare_chunks(time_s, gas_C, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, q
                     h_net = alpha_c * (g - x) + er * (tg4 - ta2 * ta2)
                     num, den = heat_capacity_fraction(x, rho_a, ca_k)  # c_a rho_a = num / den: one division
                     new = x + kk[j] * h_net * dt * den / num
-                    top = pk[j]                                        # the peak before this step
-                    first = (new >= thr[j]) & (top < thr[j])
-                    ci[j], cx[j], cn[j] = _crossing(first, i_f, x, new, ci[j], cx[j], cn[j])
-                    pki[j] = i + 1 if new > top else pki[j]
-                    pk[j] = max(top, new)
+                    pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j],
+                                                                cn[j])
                     dl[j] = new - x
                     th[j] = new
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
