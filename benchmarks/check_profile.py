@@ -79,7 +79,8 @@ def child(small: str, large: str) -> dict:
     """In-process split of ``cli.main(["check", large, "--json"])`` after a run of ``small``."""
     t0 = time.perf_counter()
     import steelfire
-    from steelfire import cli, heat, results
+    from steelfire import cli, results
+    from steelfire.models import heat
 
     t_import = time.perf_counter() - t0
     spent = {}

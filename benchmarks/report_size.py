@@ -21,8 +21,8 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 import steelfire  # noqa: E402
-from steelfire.case import case_from_dict  # noqa: E402
-from steelfire.output import write_outputs  # noqa: E402
+from steelfire.inputs.case import case_from_dict  # noqa: E402
+from steelfire.outputs.files import write_outputs  # noqa: E402
 
 
 def schedule_case(n: int) -> dict:

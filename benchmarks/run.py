@@ -30,8 +30,8 @@ sys.path.insert(0, str(ROOT / "benchmarks"))
 
 import numba  # noqa: E402
 
-from steelfire import heat  # noqa: E402
-from steelfire.fire import nominal  # noqa: E402
+from steelfire.models import heat  # noqa: E402
+from steelfire.models.fire import nominal  # noqa: E402
 
 
 def tight_twin(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam, rho_a=7850.0):
@@ -293,7 +293,7 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
         import tomllib
     else:  # pragma: no cover
         import tomli as tomllib
-    from steelfire.case import case_from_dict
+    from steelfire.inputs.case import case_from_dict
 
     base = tomllib.loads((ROOT / "cases" / "archive_room.toml").read_text())
     base["fire"]["duration_min"] = 240.0
@@ -326,7 +326,7 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
 
 
 def sizing_figures(repeats):
-    from steelfire.analysis import size, size_members
+    from steelfire.chain.analysis import size, size_members
 
     case = sizing_case()
     size_members(case)  # warm

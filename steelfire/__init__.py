@@ -14,18 +14,18 @@ __version__ = "0.1.0"
 
 __all__ = ["__version__", "load_case", "analyse", "InputError"]
 
-from .errors import InputError  # noqa: E402
+from steelfire.errors import InputError  # noqa: E402
 
 
 def load_case(path):
     """Read and validate a case file (TOML); see :func:`steelfire.case.load_case`."""
-    from .case import load_case as _load
+    from steelfire.inputs.case import load_case as _load
 
     return _load(path)
 
 
 def analyse(case, histories: bool = True):
     """Run a case; see :func:`steelfire.analysis.analyse`."""
-    from .analysis import analyse as _analyse
+    from steelfire.chain.analysis import analyse as _analyse
 
     return _analyse(case, histories=histories)

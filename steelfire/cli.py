@@ -27,7 +27,7 @@ def _parser():
                 epilog="Caution: simplified code methods (EN 1991-1-2, EN 1993-1-2) within their validity "
                        "limits; results to be verified by a competent fire engineer; national annexes, local "
                        "codes and the approving authority prevail.")
-    from . import __version__
+    from steelfire import __version__
 
     p.add_argument("--version", action="version", version=f"steelfire {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
@@ -118,19 +118,19 @@ def render_table(result, sizing=False) -> str:
         lines += ["", "*** COMPUTED OUTSIDE THE SCOPE OF THE METHOD (analysis.allow_out_of_scope = true) ***"]
     if result.warnings:
         lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
-    from .analysis import CAUTIONS_LINE
+    from steelfire.chain.analysis import CAUTIONS_LINE
 
     lines += ["", CAUTIONS_LINE]
     return "\n".join(lines)
 
 
 def _load(args):
-    from . import load_case
-    from .case import with_time_step
-    from .errors import InputError
+    from steelfire import load_case
+    from steelfire.inputs.case import with_time_step
+    from steelfire.errors import InputError
 
     if args.out is not None:
-        from .output import check_out_dir
+        from steelfire.outputs.files import check_out_dir
 
         check_out_dir(args.out)  # a bad --out fails (exit 2) before the analysis runs
     if getattr(args, "csv", None) is not None:
@@ -161,7 +161,7 @@ def _print(result, args, sizing=False):
 
 
 def _run_check(args) -> int:
-    from . import analyse
+    from steelfire import analyse
 
     case = _load(args)
     result = analyse(case, histories=args.out is not None)
@@ -171,13 +171,13 @@ def _run_check(args) -> int:
 
 
 def _run_size(args) -> int:
-    from .analysis import size
+    from steelfire.chain.analysis import size
 
     case = _load(args)
     if args.csv is not None:
         from pathlib import Path
 
-        from .errors import InputError
+        from steelfire.errors import InputError
 
         if Path(args.csv).exists() and Path(args.csv).resolve() in {Path(q).resolve() for q in case.inputs}:
             raise InputError("--csv", args.csv, "must not name an input of the case (case file, schedule, fire table)")
@@ -199,7 +199,7 @@ def check_csv_target(path, case_path=None):
     import os
     from pathlib import Path
 
-    from .errors import InputError
+    from steelfire.errors import InputError
 
     p = Path(path)
     if case_path is not None and p.exists() and p.resolve() == Path(case_path).resolve():
@@ -248,8 +248,8 @@ def write_schedule_csv(result, case, path):
 def _write(result, args, case, command):
     if args.out is None:
         return
-    from .errors import InputError
-    from .output import write_outputs
+    from steelfire.errors import InputError
+    from steelfire.outputs.files import write_outputs
 
     try:
         write_outputs(result, args.out, args.case, command=command, case=case)
@@ -258,8 +258,8 @@ def _write(result, args, case, command):
 
 
 def main(argv=None) -> int:
-    from .case import collector_paused
-    from .errors import InputError
+    from steelfire.inputs.case import collector_paused
+    from steelfire.errors import InputError
 
     args = _parser().parse_args(argv)
     # One run builds many small acyclic containers (member rows, result entries, the JSON tree) and

@@ -65,7 +65,7 @@ def resolve(overrides=None, field_prefix: str = "code") -> dict:
 
     Unknown names and values outside the entry's admissible range raise InputError.
     """
-    from .errors import InputError
+    from steelfire.errors import InputError
 
     values = dict(DEFAULTS)
     for name, value in (overrides or {}).items():
@@ -88,7 +88,7 @@ def resolve(overrides=None, field_prefix: str = "code") -> dict:
 def _register_equivalence():
     # The time-equivalence module keeps its own table of clause values (Annex F, CIB W14);
     # they are registered here so that [code] can override them like any other.
-    from .equivalence import CODE_VALUE_SOURCES, DEFAULT_CODE_VALUES
+    from steelfire.models.equivalence import CODE_VALUE_SOURCES, DEFAULT_CODE_VALUES
 
     for name, value in DEFAULT_CODE_VALUES.items():
         unit, clause = CODE_VALUE_SOURCES[name]

@@ -259,7 +259,7 @@ def _columns_json_compact(c, has_eq, verdict_texts):
     (:func:`_rounded_columns`); ``has_eq``: the members with an equivalence entry, ``verdict_texts``
     their verdicts' text (:func:`_verdict_json`). None where a value is one the writer does not vouch
     for (the caller then uses json.dumps)."""
-    from .jsontext import Numbers, objects_json
+    from steelfire.outputs.jsontext import Numbers, objects_json
 
     n = len(c["name"])
     esc = json.encoder.encode_basestring_ascii
@@ -634,7 +634,7 @@ class AnalysisResult:
         return "{" + ",".join(parts) + "}"
 
     def _document(self, members) -> dict:
-        from . import __version__
+        from steelfire import __version__
 
         return {
             "title": self.title,

@@ -905,7 +905,7 @@ def test_errors_after_loading_name_the_schedule_row(tmp_path):
 def test_member_labels_follow_the_members_not_their_index(tmp_path):
     import dataclasses
 
-    from steelfire.case import load_case, member_label
+    from steelfire.inputs.case import load_case, member_label
 
     case = load_case(write_case(tmp_path, nominal_case()))
     b1, t1 = case.members

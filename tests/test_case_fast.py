@@ -26,10 +26,10 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from steelfire import case as case_mod
+from steelfire.inputs import case as case_mod
 from steelfire import codevalues
-from steelfire import schedule as schedule_mod
-from steelfire.case import Member, case_from_dict
+from steelfire.inputs import schedule as schedule_mod
+from steelfire.inputs.case import Member, case_from_dict
 from steelfire.errors import InputError
 
 MATERIALS = {
@@ -489,7 +489,7 @@ def test_protection_step_matches_the_member_by_member_check(specs, dt):
 
 def _least_thickness_mm(mat, am_v, dt):
     """The least thickness exactly as the member-by-member check computes it."""
-    from steelfire.heat import stable_min_thickness_m
+    from steelfire.models.heat import stable_min_thickness_m
 
     m = MATS[mat]
     lam = max(v for _, v in m.conductivity_table)
@@ -595,7 +595,7 @@ def test_row_filter_quick_test_agrees_with_the_rule(rows):
     with tempfile.TemporaryDirectory() as tmp:
         p = Path(tmp) / "r.csv"
         p.write_text(text.getvalue(), encoding="utf-8")
-        from steelfire.csvrows import _holds_data, read_rows
+        from steelfire.inputs.csvrows import _holds_data, read_rows
 
         got = read_rows(p, "f", "rows")
         with p.open(newline="", encoding="utf-8-sig") as fh:

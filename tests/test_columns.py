@@ -19,7 +19,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import steelfire
-from steelfire import analysis, results
+from steelfire.chain import analysis
+from steelfire import results
 
 ROOT = Path(__file__).resolve().parents[1]
 CASES = sorted((ROOT / "cases").glob("*.toml"))

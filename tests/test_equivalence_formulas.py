@@ -15,7 +15,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from steelfire.equivalence import (
+from steelfire.models.equivalence import (
     DEFAULT_CODE_VALUES,
     CODE_VALUE_SOURCES,
     annex_f_conversion_factor,

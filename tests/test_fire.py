@@ -7,11 +7,11 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from steelfire.analysis import time_grid
+from steelfire.chain.analysis import time_grid
 from steelfire.codevalues import DEFAULTS
 from steelfire.errors import InputError
-from steelfire.fire import compartment as comp
-from steelfire.fire import fireload, nominal, parametric
+from steelfire.models.fire import compartment as comp
+from steelfire.models.fire import fireload, nominal, parametric
 
 
 # ---- nominal curves ---------------------------------------------------------------------------

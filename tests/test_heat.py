@@ -14,9 +14,9 @@ from hypothesis import strategies as st
 from scipy.integrate import solve_ivp
 
 import twins
-from steelfire import heat
-from steelfire.analysis import time_grid
-from steelfire.fire import nominal, parametric
+from steelfire.models import heat
+from steelfire.chain.analysis import time_grid
+from steelfire.models.fire import nominal, parametric
 
 RHO_A = 7850.0
 EPS = 0.7  # eps_m eps_f = 0.7 x 1.0, EN 1993-1-2 2.2(2) and EN 1991-1-2 3.1(6)
@@ -299,7 +299,7 @@ def test_expm1_scaled_matches_math_expm1():
 def test_heat_capacity_fraction_is_eq_3_2_times_density():
     # the batch kernels' c_a rho_a = num / den against EN 1993-1-2 eq (3.2a)-(3.2d) (steelfire.steel,
     # written out from the clause), across the branches and at their ends, 20 C clamp included
-    from steelfire import steel
+    from steelfire.models import steel
 
     xs = np.concatenate([np.linspace(-50.0, 1300.0, 2701), [20.0, 599.999999, 600.0, 734.999999, 735.0, 737.9,
                                                             731.1, 899.999999, 900.0, 1200.0]])
@@ -315,7 +315,7 @@ def test_bare_step_limit_hand_calculation():
     # theta_a = theta_g = 1000 C (T = 1273 K, the 273 of EN 1991-1-2 eq (3.3)): 4 x 0.7 x 5.67e-8 x 1273^3 = 327.5,
     # + 25 = 352.5 W/(m2 K); c_a = 650 (EN 1993-1-2 eq (3.2d)); k_sh Am/V = 7850 x 650 / (5 x 352.5)
     # = 2895 1/m. (At 20 C: (25 + 0.7 x 5.67e-8 x 1566 x 1706378) / 439.8 = 0.298 < 352.5 / 650 = 0.542.)
-    from steelfire.analysis import bare_step_limit_per_m
+    from steelfire.chain.analysis import bare_step_limit_per_m
 
     t = np.arange(0.0, 601.0, 5.0)
     g = np.full_like(t, 1000.0)
@@ -326,7 +326,7 @@ def test_bare_step_limit_hand_calculation():
 def test_bare_step_limit_separates_monotone_from_overshooting_histories(alpha_c, rho_a, dt):
     """Below the limit the explicit eq (4.25) never passes the gas (it approaches 1000 C from below);
     at three times it, the first steps already jump past the gas."""
-    from steelfire.analysis import bare_step_limit_per_m
+    from steelfire.chain.analysis import bare_step_limit_per_m
 
     t = np.arange(0.0, 3600.0 + dt / 2, dt)
     g = np.full_like(t, 1000.0)
@@ -350,7 +350,7 @@ def test_every_kernel_can_be_cached(tmp_path):
     code = (
         "import warnings, numpy as np\n"
         "warnings.simplefilter('error')\n"
-        "from steelfire import heat, jsontext\n"
+        "from steelfire.models import heat\nfrom steelfire.outputs import jsontext\n"
         "t = np.arange(0.0, 601.0, 5.0); g = np.linspace(20.0, 800.0, t.size)\n"
         "n = 3; one = np.ones(n)\n"
         "heat.batch(t, g, np.array([True, False, False]), one * 150.0, 25.0, 0.7, 7850.0, one * 0.02, one * 800.0,\n"

@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 
 import steelfire
 from steelfire import cli, results
-from steelfire.jsontext import Numbers, objects_json
+from steelfire.outputs.jsontext import Numbers, objects_json
 
 ROOT = Path(__file__).resolve().parents[1]
 CASES = sorted((ROOT / "cases").glob("*.toml"))
@@ -143,7 +143,7 @@ def test_large_shuffled_schedule_equals_json_dumps():
 
 
 def test_sized_members_go_through_json_dumps():
-    from steelfire.analysis import size
+    from steelfire.chain.analysis import size
 
     res = size(steelfire.load_case(ROOT / "cases" / "archive_room.toml"))
     assert any(m.sizing is not None for m in res.members)

@@ -16,7 +16,8 @@ import numpy as np
 import pytest
 
 import steelfire
-from steelfire import analysis, results
+from steelfire.chain import analysis
+from steelfire import results
 from steelfire.results import MemberResults
 
 from test_columns import equivalence_twin, member_dict_twin, routes_of  # noqa: E402  (tests/ is on the path)

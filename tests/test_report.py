@@ -23,7 +23,7 @@ import pytest
 
 import steelfire
 from steelfire.errors import InputError
-from steelfire.output import format_number, write_outputs
+from steelfire.outputs.files import format_number, write_outputs
 
 ROOT = Path(__file__).resolve().parents[1]
 CASES = ROOT / "cases"
@@ -429,7 +429,7 @@ def test_out_dir_that_is_a_file(tmp_path):
 
 
 def test_out_dir_not_writable(tmp_path, monkeypatch):
-    import steelfire.output as output
+    import steelfire.outputs.files as output
 
     case = steelfire.load_case(CASES / "warehouse_standard.toml")
     result = steelfire.analyse(case)
@@ -450,7 +450,7 @@ def test_missing_out_dir_is_created(tmp_path):
 
 
 def test_failure_in_a_plot_leaves_nothing(tmp_path, monkeypatch):
-    from steelfire.report import plots
+    from steelfire.outputs.report import plots
 
     def boom(*a, **k):
         raise RuntimeError("injected")
@@ -464,7 +464,7 @@ def test_failure_in_a_plot_leaves_nothing(tmp_path, monkeypatch):
 
 
 def test_failure_while_writing_removes_temporaries_and_keeps_old_files(tmp_path, monkeypatch):
-    import steelfire.output as output
+    import steelfire.outputs.files as output
 
     out = tmp_path / "out"
     case, result, w = run_case(CASES / "archive_room.toml", out)
@@ -486,7 +486,7 @@ def test_failure_while_writing_removes_temporaries_and_keeps_old_files(tmp_path,
 
 
 def test_failure_inside_write_temp_cleans_its_own_file(tmp_path, monkeypatch):
-    import steelfire.output as output
+    import steelfire.outputs.files as output
 
     out = tmp_path / "out"
     out.mkdir()
@@ -516,7 +516,7 @@ def test_failure_inside_write_temp_cleans_its_own_file(tmp_path, monkeypatch):
 
 
 def test_failure_during_renames_leaves_only_complete_files(tmp_path, monkeypatch):
-    import steelfire.output as output
+    import steelfire.outputs.files as output
 
     out = tmp_path / "out"
     case = steelfire.load_case(CASES / "archive_room.toml")
@@ -613,7 +613,7 @@ def big_case_dict(n):
 
 
 def test_long_schedule_plots_a_stated_selection(tmp_path):
-    from steelfire.case import case_from_dict
+    from steelfire.inputs.case import case_from_dict
 
     case = case_from_dict(big_case_dict(20), base_dir=CASES)
     result = steelfire.analyse(case)

@@ -9,9 +9,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from steelfire import sections as sec
+from steelfire.models import sections as sec
 from steelfire.errors import InputError
-from steelfire.sections import (
+from steelfire.models.sections import (
     CircularHollowSection,
     ISection,
     RectangularHollowSection,

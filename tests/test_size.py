@@ -12,10 +12,10 @@ import pytest
 
 import twins
 import steelfire
-from steelfire.analysis import analyse, size, time_grid
-from steelfire.case import case_from_dict
+from steelfire.chain.analysis import analyse, size, time_grid
+from steelfire.inputs.case import case_from_dict
 from steelfire.errors import InputError
-from steelfire.fire import nominal
+from steelfire.models.fire import nominal
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -4,9 +4,9 @@ import numpy as np
 import pytest
 
 import twins
-from steelfire import sizing
-from steelfire.analysis import time_grid
-from steelfire.fire import nominal, parametric
+from steelfire.chain import sizing
+from steelfire.chain.analysis import time_grid
+from steelfire.models.fire import nominal, parametric
 
 EPS, RHO_A = 0.7, 7850.0
 
@@ -133,7 +133,7 @@ def test_scan_grid_uses_supplied_thicknesses_or_a_log_spread():
 
 def test_batch_many_chunks_and_threshold_at_start():
     """More members than one chunk (the parallel path) and a threshold at or below 20 C."""
-    from steelfire import heat
+    from steelfire.models import heat
 
     t = time_grid(3600.0, 5.0)
     g = nominal.standard_fire(t)

@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 
-from steelfire import steel
+from steelfire.models import steel
 from steelfire.errors import InputError
 
 # EN 1993-1-2 Table 4.1 (critical temperature by degree of utilisation), entered from memory at
@@ -48,7 +48,7 @@ def test_specific_heat_points():
 
 
 def test_specific_heat_array_matches_kernel():
-    from steelfire import heat
+    from steelfire.models import heat
 
     th = np.linspace(0.0, 1300.0, 2601)
     np.testing.assert_allclose(steel.specific_heat(th), [heat.specific_heat_steel(float(x)) for x in th], rtol=1e-12)

@@ -3,7 +3,7 @@
 import copy
 
 import steelfire
-from steelfire.case import case_from_dict
+from steelfire.inputs.case import case_from_dict
 
 BASE = {
     "title": "warning test (invented)",

@@ -15,11 +15,11 @@ import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from . import codevalues
-from .errors import InputError
-from .fire.compartment import Layer, Opening, Surface
-from .protection import ASSESSED_FIRES, GENERIC_FILE, Material
-from .schedule import ABSENT
+from steelfire import codevalues
+from steelfire.errors import InputError
+from steelfire.models.fire.compartment import Layer, Opening, Surface
+from steelfire.models.protection import ASSESSED_FIRES, GENERIC_FILE, Material
+from steelfire.inputs.schedule import ABSENT
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -319,7 +319,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     with collector_paused():
         blocks = [_InlineRows(members_raw)]
         if top.has("members_file"):
-            from .schedule import read_schedule_columns
+            from steelfire.inputs.schedule import read_schedule_columns
 
             sched = top.string("members_file")
             blocks.append(read_schedule_columns(Path(base_dir) / sched))
@@ -446,7 +446,7 @@ def check_protection_step(members, materials, code, time_step_s, field="analysis
     one, in order, by :func:`_protection_step_error`, which decides and words the error."""
     import numpy as np
 
-    from .heat import stable_min_thickness_m
+    from steelfire.models.heat import stable_min_thickness_m
 
     at = [i for i, m in enumerate(members) if m.protection is not None and m.thickness_mm is not None]
     if not at:
@@ -470,7 +470,7 @@ def check_protection_step(members, materials, code, time_step_s, field="analysis
 
 def _protection_step_error(i, m, materials, code, time_step_s, field, places=None):
     """The InputError for member ``i`` (``m``) if its protection is too thin for the time step, else None."""
-    from .heat import stable_min_thickness_m
+    from steelfire.models.heat import stable_min_thickness_m
 
     if not m.protected or m.thickness_mm is None:
         return None
@@ -854,7 +854,7 @@ def _read_member(data, where0, materials, code) -> Member:
         raise InputError(f"{where}.shadow_factor", ksh, "applies to bare steel only (EN 1993-1-2 4.2.5.1)")
     k_nom = k_nat = ksh if ksh is not None else 1.0
     if section is not None:
-        from . import sections as sec
+        from steelfire.models import sections as sec
 
         if t.has("section_factor_per_m"):
             raise InputError(f"{where}.section_factor_per_m", t.raw("section_factor_per_m"),

@@ -174,7 +174,7 @@ def _num(v):
 
 
 def _fmt(v) -> str:
-    from ..output import format_number
+    from steelfire.outputs.files import format_number
 
     return format_number(v)
 
@@ -187,7 +187,7 @@ def design_fire_figure(doc, result):
     """The design fire's gas temperature against the standard curve (EN 1991-1-2 eq (3.4)), t_max marked."""
     import numpy as np
 
-    from ..fire import nominal
+    from steelfire.models.fire import nominal
 
     f = doc["fire"]
     t_s = np.asarray(result.fire.time_s, dtype=float)

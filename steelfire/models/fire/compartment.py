@@ -9,7 +9,7 @@ import math
 from dataclasses import dataclass
 from typing import Sequence
 
-from ..errors import InputError
+from steelfire.errors import InputError
 
 
 @dataclass(frozen=True)

@@ -14,8 +14,8 @@ from __future__ import annotations
 import math
 from pathlib import Path
 
-from .csvrows import read_rows_split
-from .errors import InputError
+from steelfire.inputs.csvrows import read_rows_split
+from steelfire.errors import InputError
 
 #: Column -> type of the [[member]] keys a schedule may carry.
 COLUMNS = {

@@ -1,3 +1,3 @@
 """Design fires: nominal curves, the Annex A parametric fire, compartment quantities, fire loads."""
 
-from . import compartment, fireload, nominal, parametric, tabulated  # noqa: F401
+from steelfire.models.fire import compartment, fireload, nominal, parametric, tabulated  # noqa: F401

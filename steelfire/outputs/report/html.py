@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from html import escape as _esc
 
-from ..output import format_number
+from steelfire.outputs.files import format_number
 
 DASH = "\u2014"
 
@@ -737,8 +737,8 @@ footer { margin-top: 8mm; border-top: 0.5pt solid var(--rule); padding-top: 1.5m
 
 def render_report(doc, figures) -> str:
     """The report page (a str of HTML) from the result document and the rendered figures."""
-    from . import plots
-    from ..output import sizing_columns
+    from steelfire.outputs.report import plots
+    from steelfire.outputs.files import sizing_columns
 
     c = _Cells(doc)
     figs = {f.name: f for f in figures}

@@ -26,7 +26,7 @@ import time
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from .errors import InputError
+from steelfire.errors import InputError
 
 #: Names of the files a run writes (figures add ``fig_<name>.png`` / ``.svg``).
 RESULTS_JSON = "results.json"
@@ -53,7 +53,7 @@ class WrittenOutputs:
 
 
 def _sig(v, n=6):
-    from .results import _sig as sig
+    from steelfire.results import _sig as sig
 
     return sig(v, n)
 
@@ -68,7 +68,7 @@ def _num(v):
 
 
 def _round_tree(v):
-    from .results import _round_tree as rt
+    from steelfire.results import _round_tree as rt
 
     if hasattr(v, "to_dict") and callable(v.to_dict):
         v = v.to_dict()
@@ -169,8 +169,8 @@ def build_document(result, case_path=None, *, case=None, command: str = "check",
     ``code_value_sources`` the unit and clause of each code value, ``summary`` the verdict counts.
     The document is round-tripped through JSON, so it holds exactly what results.json holds.
     """
-    from . import __version__
-    from .codevalues import DEFINITIONS
+    from steelfire import __version__
+    from steelfire.codevalues import DEFINITIONS
 
     doc = result.to_dict()
     for m, d in zip(result.members, doc["members"]):
@@ -185,7 +185,7 @@ def build_document(result, case_path=None, *, case=None, command: str = "check",
         stamp["case_file"] = Path(case_path).name
         stamp["case_sha256"] = file_sha256(case_path)
     if case is None and case_path is not None:
-        from .case import load_case
+        from steelfire.inputs.case import load_case
 
         case = load_case(case_path)
     if case is not None and case.fire.file is not None and Path(case.fire.file).is_file():
@@ -334,7 +334,7 @@ def histories_csv(result) -> tuple:
 
 def output_targets() -> list:
     """Every file name a run may write into its output directory."""
-    from .report.plots import FIGURE_NAMES
+    from steelfire.outputs.report.plots import FIGURE_NAMES
 
     return [RESULTS_JSON, MEMBERS_CSV, HISTORIES_CSV, REPORT_HTML] + \
         [f"fig_{n}.{x}" for n in FIGURE_NAMES for x in ("png", "svg")]
@@ -474,13 +474,13 @@ def write_outputs(result, out_dir, case_path=None, command: str = "check", *, ca
 
     Returns :class:`WrittenOutputs` (directory, file names, wall times per stage [s]).
     """
-    from .report import html as report_html
-    from .report import plots
+    from steelfire.outputs.report import html as report_html
+    from steelfire.outputs.report import plots
 
     out = check_out_dir(out_dir)
     base_targets = output_targets()
     if case is None and case_path is not None:
-        from .case import load_case
+        from steelfire.inputs.case import load_case
 
         case = load_case(case_path)
     _guard_inputs(out, base_targets, case_path, case)

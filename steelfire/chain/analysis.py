@@ -10,12 +10,12 @@ import math
 
 import numpy as np
 
-from . import heat, steel
-from .case import Case, member_label
-from .errors import InputError, OutOfScopeError
-from .fire import compartment as comp
-from .fire import fireload, nominal, parametric, tabulated
-from .results import _VERDICT_BITS, AnalysisResult, EquivalenceColumns, FireResult, MemberResults, MemberTable
+from steelfire.models import heat, steel
+from steelfire.inputs.case import Case, member_label
+from steelfire.errors import InputError, OutOfScopeError
+from steelfire.models.fire import compartment as comp
+from steelfire.models.fire import fireload, nominal, parametric, tabulated
+from steelfire.results import _VERDICT_BITS, AnalysisResult, EquivalenceColumns, FireResult, MemberResults, MemberTable
 
 CAUTIONS = (
     "Simplified code methods (EN 1991-1-2, EN 1993-1-2) with validity limits; Annexes A, E and F are informative.",
@@ -376,7 +376,7 @@ def equivalence_routes(case, fire, members, equal_time_s, warnings, critical_tim
 
 def _equivalence(case, fire, members, equal_time_s, warnings, critical_time_s=None):
     """:func:`equivalence_routes` with the members' entries by column: (factors, EquivalenceColumns)."""
-    from . import equivalence as eq
+    from steelfire.models import equivalence as eq
 
     horizon = case.analysis.standard_horizon_min
     annex_f = {}
@@ -504,7 +504,7 @@ def _equivalence_columns(members, annex_f, cib, equal_time_s, critical_time_s, h
 
 def _member_warnings(case, members, fire, t, g, peak, last, cols):
     out = []
-    from .protection import assessment_warnings
+    from steelfire.models.protection import assessment_warnings
 
     # only materials that state an assessed range (or a standard-fire-only assessment) can warn
     assessed = {name for name, mt in case.materials.items()
@@ -554,7 +554,7 @@ def _member_warnings(case, members, fire, t, g, peak, last, cols):
 
 def _sizing_fires(case):
     """The standard fire up to the longest required period and the design fire, as sizing.Fire."""
-    from . import sizing
+    from steelfire.chain import sizing
 
     code = case.code
     step = case.analysis.time_step_s
@@ -572,7 +572,7 @@ def size_members(case: Case):
     """Least thickness per protected member for its standard period and for burnout, the governing
     one, and the least supplied thickness that passes both (checked, since the burnout peak need not
     fall with thickness). Returns a list of sizing dicts, one per member, in schedule order."""
-    from . import sizing
+    from steelfire.chain import sizing
 
     code = case.code
     members = case.members

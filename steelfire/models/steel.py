@@ -6,7 +6,7 @@ import math
 
 import numpy as np
 
-from .errors import InputError
+from steelfire.errors import InputError
 
 #: Unit mass of steel [kg/m3], EN 1993-1-2 3.2.2(1).
 STEEL_DENSITY_KG_M3 = 7850.0

@@ -8,8 +8,8 @@ from pathlib import Path
 
 import numpy as np
 
-from ..csvrows import read_rows
-from ..errors import InputError
+from steelfire.inputs.csvrows import read_rows
+from steelfire.errors import InputError
 
 COLUMNS = ("time_min", "temperature_C")
 

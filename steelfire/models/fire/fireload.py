@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import math
 
-from ..codevalues import DEFAULTS
-from ..errors import InputError
+from steelfire.codevalues import DEFAULTS
+from steelfire.errors import InputError
 
 #: Floor areas [m2] of the rows of EN 1991-1-2 Table E.1 and the code-value names of delta_q1.
 AREA_FACTOR_ROWS = (

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from . import heat
+from steelfire.models import heat
 
 #: Bisection stops when the bracket is this narrow [m] (0.1 mm).
 TOLERANCE_M = 1e-4

@@ -5,7 +5,7 @@ from __future__ import annotations
 import csv
 from pathlib import Path
 
-from .errors import InputError
+from steelfire.errors import InputError
 
 
 def read_rows(path, field: str, what: str):

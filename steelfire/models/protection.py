@@ -28,7 +28,7 @@ DEFAULT_THICKNESS_STEP_MM = 0.5
 
 ASSESSED_FIRES = ("any", "standard")
 
-GENERIC_FILE = Path(__file__).with_name("data") / "materials_generic.toml"
+GENERIC_FILE = Path(__file__).parents[1] / "data" / "materials_generic.toml"
 
 
 @dataclass(frozen=True)

@@ -11,8 +11,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..codevalues import DEFAULTS
-from ..errors import InputError
+from steelfire.codevalues import DEFAULTS
+from steelfire.errors import InputError
 
 #: Reference ratio O/b of eq (A.2b) that gives Gamma = 1: 0.04 / 1160.
 GAMMA_REFERENCE = 0.04 / 1160.0
