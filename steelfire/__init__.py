@@ -4,28 +4,47 @@ Python API::
 
     import steelfire
     case = steelfire.load_case("cases/office_bay.toml")
-    result = steelfire.analyse(case)
+    result = steelfire.analyse(case)          # or steelfire.size(case)
     result.members[0].peak_steel_temperature_C
+    steelfire.write_outputs(result, "out", case=case)
 
 Physics functions are importable on their own (``from steelfire.fire import parametric``).
 """
 
 __version__ = "0.1.0"
 
-__all__ = ["__version__", "load_case", "analyse", "InputError"]
+__all__ = ["__version__", "load_case", "analyse", "size", "write_outputs", "InputError"]
 
 from steelfire.errors import InputError  # noqa: E402
 
 
 def load_case(path):
-    """Read and validate a case file (TOML); see :func:`steelfire.case.load_case`."""
+    """Read and validate a case file (TOML); see :func:`steelfire.inputs.case.load_case`."""
     from steelfire.inputs.case import load_case as _load
 
     return _load(path)
 
 
 def analyse(case, histories: bool = True):
-    """Run a case; see :func:`steelfire.analysis.analyse`."""
+    """Run a case; see :func:`steelfire.chain.analysis.analyse`."""
     from steelfire.chain.analysis import analyse as _analyse
 
     return _analyse(case, histories=histories)
+
+
+def size(case, histories: bool = True):
+    """Size the protection of every member, then check at the chosen thicknesses; see
+    :func:`steelfire.chain.sizing.size`."""
+    from steelfire.chain.sizing import size as _size
+
+    return _size(case, histories=histories)
+
+
+def write_outputs(result, folder, case=None, case_path=None):
+    """Write results.json, the CSV tables, the figures and report.html into ``folder``; see
+    :func:`steelfire.outputs.files.write_outputs`."""
+    from steelfire.outputs.files import write_outputs as _write
+
+    if case_path is None and case is not None:
+        case_path = case.source
+    return _write(result, folder, case_path, case=case)

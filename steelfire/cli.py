@@ -1,18 +1,15 @@
-"""Command line: ``steelfire check CASE [--json] [--time-step-s S]``.
+"""Command line: ``steelfire check|size CASE [--json] [--time-step-s S] [--out DIR]``.
 
-A thin layer over the Python API: it loads the case, runs it and prints. Exit codes: 0 every
-member passes and meets its period, 1 some member does not, 2 bad input.
+A thin layer over the Python API: it loads the case, runs it and prints. Exit codes: 0 every member
+passes and meets its period, 1 some member does not, 2 bad input, 3 an internal error, 130 interrupted.
 """
 
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 
-EXIT_OK, EXIT_FAIL, EXIT_INPUT = 0, 1, 2
-#: Above this many members the JSON on stdout is printed without indentation.
-COMPACT_JSON_MEMBERS = 2000
+EXIT_OK, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL, EXIT_INTERRUPTED = 0, 1, 2, 3, 130
 
 
 class _Parser(argparse.ArgumentParser):
@@ -125,9 +122,8 @@ def render_table(result, sizing=False) -> str:
 
 
 def _load(args):
-    from steelfire import load_case
-    from steelfire.inputs.case import with_time_step
     from steelfire.errors import InputError
+    from steelfire.inputs.case import load_case, with_time_step
 
     if args.out is not None:
         from steelfire.outputs.files import check_out_dir
@@ -147,21 +143,16 @@ def _load(args):
 
 def _print(result, args, sizing=False):
     if args.json:
-        # indented for a readable document; compact for large schedules (the indenting encoder is
-        # the pure-Python one, several times slower)
-        if len(result.members) <= COMPACT_JSON_MEMBERS:
-            text = json.dumps(result.to_dict(), indent=2, allow_nan=False)
-        else:
-            # the member entries written a column at a time, without a dict per member
-            text = result.to_json_compact()
-        sys.stdout.write(text)
-        sys.stdout.write("\n")
+        from steelfire.outputs import document
+
+        sys.stdout.buffer.write(document.dumps(document.build(result)) + b"\n")
+        sys.stdout.flush()
     else:
         sys.stdout.write(render_table(result, sizing=sizing) + "\n")
 
 
 def _run_check(args) -> int:
-    from steelfire import analyse
+    from steelfire.chain.analysis import analyse
 
     case = _load(args)
     result = analyse(case, histories=args.out is not None)
@@ -171,7 +162,7 @@ def _run_check(args) -> int:
 
 
 def _run_size(args) -> int:
-    from steelfire.chain.analysis import size
+    from steelfire.chain.sizing import size
 
     case = _load(args)
     if args.csv is not None:
@@ -187,11 +178,6 @@ def _run_size(args) -> int:
         write_schedule_csv(result, case, args.csv)
     _print(result, args, sizing=True)
     return EXIT_OK if all(m.sizing["achievable"] for m in result.members) else EXIT_FAIL
-
-
-SCHEDULE_COLUMNS = ("member", "kind", "section", "section_factor_per_m", "protection", "material", "chosen_mm",
-                    "governing", "standard_period_mm", "burnout_mm", "required_minutes", "critical_temperature_C",
-                    "peak_steel_temperature_C", "achievable", "note")
 
 
 def check_csv_target(path, case_path=None):
@@ -212,32 +198,20 @@ def check_csv_target(path, case_path=None):
 
 
 def write_schedule_csv(result, case, path):
-    """The protection schedule a contractor can price: one row per member; written to a temporary
+    """The protection schedule (:func:`steelfire.outputs.tables.schedule_csv`), written to a temporary
     file in the same folder and renamed, so no half-written file is left."""
-    import csv
-    import io
     import os
     import tempfile
     from pathlib import Path
 
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(SCHEDULE_COLUMNS)
-    by_name = {m.name: m for m in case.members}
-    for r in result.members:
-        s = r.to_dict()["sizing"]
-        m = by_name[r.name]
-        mat = case.materials.get(r.protection) if r.protection else None
-        w.writerow([r.name, r.kind, m.section or "", f"{r.section_factor_per_m:g}", r.protection or "bare",
-                    (mat.description if mat else ""), _fmt(s["chosen_mm"], "g", ""), s["governing"] or "",
-                    _fmt(s["standard_period_mm"], "g", ""), _fmt(s["burnout_mm"], "g", ""),
-                    _fmt(r.required_minutes, "g", ""), f"{round(r.critical_temperature_C, 2):g}",
-                    f"{round(r.peak_steel_temperature_C, 2):g}", "yes" if s["achievable"] else "no", s["note"]])
+    from steelfire.outputs import document, tables
+
+    text = tables.schedule_csv(document.build(result), case)
     p = Path(path)
     fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", suffix=".part", dir=str(p.parent if str(p.parent) else "."))
     try:
         with os.fdopen(fd, "w", newline="", encoding="utf-8") as fh:
-            fh.write(buf.getvalue())
+            fh.write(text)
         os.replace(tmp, p)
     except BaseException:
         if os.path.exists(tmp):
@@ -258,20 +232,41 @@ def _write(result, args, case, command):
 
 
 def main(argv=None) -> int:
-    from steelfire.inputs.case import collector_paused
+    """Run the command line ``argv`` (default: sys.argv[1:]); returns the exit code."""
     from steelfire.errors import InputError
 
-    args = _parser().parse_args(argv)
-    # One run builds many small acyclic containers (member rows, result entries, the JSON tree) and
-    # frees them by reference counting; the cyclic collector would only re-scan them, which costs a
-    # large schedule as much again as building them. It is off for the run and back on after.
-    with collector_paused():
-        try:
-            if args.command == "check":
-                return _run_check(args)
-            if args.command == "size":
-                return _run_size(args)
-        except InputError as exc:
-            sys.stderr.write(f"steelfire: error: {exc}\n")
-            return EXIT_INPUT
+    try:
+        args = _parser().parse_args(argv)
+    except SystemExit as exc:  # --help, --version, or a usage error (already printed)
+        return int(exc.code or 0)
+    try:
+        if args.command == "check":
+            return _run_check(args)
+        if args.command == "size":
+            return _run_size(args)
+    except InputError as exc:
+        sys.stderr.write(f"steelfire: error: {exc}\n")
+        return EXIT_INPUT
+    except KeyboardInterrupt:
+        sys.stderr.write("steelfire: interrupted; outputs left as they were before the run\n")
+        return EXIT_INTERRUPTED
+    except Exception as exc:  # an internal error: never reported as a member verdict
+        return _internal_error(exc)
     return EXIT_INPUT
+
+
+def _internal_error(exc) -> int:
+    """Write the traceback to a file in the temporary folder and say where, in one line; exit code 3."""
+    import tempfile
+    import traceback
+
+    text = "".join(traceback.format_exception(type(exc), exc, exc.__traceback__))
+    try:
+        fd, path = tempfile.mkstemp(prefix="steelfire-error-", suffix=".txt")
+        with open(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+        where = f"traceback written to {path}"
+    except OSError:
+        where = "no traceback file could be written"
+    sys.stderr.write(f"steelfire: internal error ({type(exc).__name__}); {where}; please report it\n")
+    return EXIT_INTERNAL

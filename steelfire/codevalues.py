@@ -1,100 +1,146 @@
-"""Values taken from clauses of the Eurocodes, each overridable by a case's ``[code]`` table.
+"""The one registry of values taken from clauses of the Eurocodes; a case's ``[code]`` table overrides them.
 
-Annexes A, E and F of EN 1991-1-2 are informative, and many values in EN 1991-1-2 and EN 1993-1-2
-are nationally determined parameters. Every such value steelfire uses is one named entry below with
-the EN recommended value; a case may override any of them by name in ``[code]``, and every output
-lists the values used (``code_values``).
+Annexes A, C, E and F of EN 1991-1-2 are informative and many values of EN 1991-1-2 and EN 1993-1-2
+are nationally determined parameters. Every such value steelfire uses is one entry here: its name
+(the ``[code]`` key), the EN recommended value, the unit, the clause, and the range an override must
+stay in (a sane range: wide enough for any national annex, narrow enough to refuse a typo or a value
+that would make a formula overflow). The formulas read the values from the mapping :func:`resolve`
+returns (``code[name]``); every output lists the values used.
 """
 
 from __future__ import annotations
 
+import difflib
+import math
 from dataclasses import dataclass
 from types import MappingProxyType
+
+from steelfire.errors import InputError
 
 
 @dataclass(frozen=True)
 class CodeValue:
+    """One clause value: EN recommended ``value`` [``unit``] from ``clause``; overrides within
+    ``minimum`` <= v <= ``maximum``."""
+
     value: float
     unit: str
     clause: str
-    minimum: float = 0.0  # smallest admissible override (inclusive)
-    maximum: float = float("inf")
+    minimum: float
+    maximum: float
+
+
+def _v(value, unit, clause, minimum, maximum):
+    return CodeValue(float(value), unit, clause, float(minimum), float(maximum))
 
 
 _DEFS = {
     # EN 1991-1-2 Annex A: parametric fire
-    "t_lim_slow_min": CodeValue(25.0, "min", "EN 1991-1-2 A.(10), slow fire growth rate", 1.0, 120.0),
-    "t_lim_medium_min": CodeValue(20.0, "min", "EN 1991-1-2 A.(10), medium fire growth rate", 1.0, 120.0),
-    "t_lim_fast_min": CodeValue(15.0, "min", "EN 1991-1-2 A.(10), fast fire growth rate", 1.0, 120.0),
-    "annex_a_opening_factor_min": CodeValue(0.02, "m^0.5", "EN 1991-1-2 A.(2), lower limit of O", 0.0, 1.0),
-    "annex_a_opening_factor_max": CodeValue(0.20, "m^0.5", "EN 1991-1-2 A.(2), upper limit of O", 0.0, 1.0),
-    "annex_a_thermal_inertia_min": CodeValue(100.0, "J/(m2 s^0.5 K)", "EN 1991-1-2 A.(3), lower limit of b", 0.0, 1e5),
-    "annex_a_thermal_inertia_max": CodeValue(2200.0, "J/(m2 s^0.5 K)", "EN 1991-1-2 A.(3), upper limit of b", 0.0, 1e5),
-    "annex_a_fire_load_min_MJ_m2": CodeValue(50.0, "MJ/m2", "EN 1991-1-2 A.(7), lower limit of q_t,d", 0.0, 1e5),
-    "annex_a_fire_load_max_MJ_m2": CodeValue(1000.0, "MJ/m2", "EN 1991-1-2 A.(7), upper limit of q_t,d", 0.0, 1e5),
-    "annex_a_floor_area_max_m2": CodeValue(500.0, "m2", "EN 1991-1-2 A.(2), largest floor area", 0.0, 1e6),
-    "annex_a_height_max_m": CodeValue(4.0, "m", "EN 1991-1-2 A.(2), largest compartment height", 0.0, 100.0),
+    "t_lim_slow_min": _v(25, "min", "EN 1991-1-2 A.(10), slow fire growth rate", 1, 120),
+    "t_lim_medium_min": _v(20, "min", "EN 1991-1-2 A.(10), medium fire growth rate", 1, 120),
+    "t_lim_fast_min": _v(15, "min", "EN 1991-1-2 A.(10), fast fire growth rate", 1, 120),
+    "annex_a_opening_factor_min": _v(0.02, "m^0.5", "EN 1991-1-2 A.(2), lower limit of O", 0, 1),
+    "annex_a_opening_factor_max": _v(0.20, "m^0.5", "EN 1991-1-2 A.(2), upper limit of O", 0, 1),
+    "annex_a_thermal_inertia_min": _v(100, "J/(m2 s^0.5 K)", "EN 1991-1-2 A.(3), lower limit of b", 0, 1e5),
+    "annex_a_thermal_inertia_max": _v(2200, "J/(m2 s^0.5 K)", "EN 1991-1-2 A.(3), upper limit of b", 0, 1e5),
+    "annex_a_fire_load_min_MJ_m2": _v(50, "MJ/m2", "EN 1991-1-2 A.(7), lower limit of q_t,d", 0, 1e5),
+    "annex_a_fire_load_max_MJ_m2": _v(1000, "MJ/m2", "EN 1991-1-2 A.(7), upper limit of q_t,d", 0, 1e5),
+    "annex_a_floor_area_max_m2": _v(500, "m2", "EN 1991-1-2 A.(2), largest floor area", 0, 1e6),
+    "annex_a_height_max_m": _v(4, "m", "EN 1991-1-2 A.(2), largest compartment height", 0, 100),
     # EN 1991-1-2 Annex E: design fire load density, Table E.1 (delta_q1 by floor area)
-    "delta_q1_25m2": CodeValue(1.10, "-", "EN 1991-1-2 Table E.1, A_f = 25 m2", 0.0, 10.0),
-    "delta_q1_250m2": CodeValue(1.50, "-", "EN 1991-1-2 Table E.1, A_f = 250 m2", 0.0, 10.0),
-    "delta_q1_2500m2": CodeValue(1.90, "-", "EN 1991-1-2 Table E.1, A_f = 2500 m2", 0.0, 10.0),
-    "delta_q1_5000m2": CodeValue(2.00, "-", "EN 1991-1-2 Table E.1, A_f = 5000 m2", 0.0, 10.0),
-    "delta_q1_10000m2": CodeValue(2.13, "-", "EN 1991-1-2 Table E.1, A_f = 10000 m2", 0.0, 10.0),
+    "delta_q1_25m2": _v(1.10, "-", "EN 1991-1-2 Table E.1, A_f = 25 m2", 0.1, 10),
+    "delta_q1_250m2": _v(1.50, "-", "EN 1991-1-2 Table E.1, A_f = 250 m2", 0.1, 10),
+    "delta_q1_2500m2": _v(1.90, "-", "EN 1991-1-2 Table E.1, A_f = 2500 m2", 0.1, 10),
+    "delta_q1_5000m2": _v(2.00, "-", "EN 1991-1-2 Table E.1, A_f = 5000 m2", 0.1, 10),
+    "delta_q1_10000m2": _v(2.13, "-", "EN 1991-1-2 Table E.1, A_f = 10000 m2", 0.1, 10),
     # EN 1991-1-2 3.1, 3.2, 3.3: thermal actions
-    "alpha_c_standard": CodeValue(25.0, "W/(m2 K)", "EN 1991-1-2 3.2.1(3), standard curve", 1.0, 500.0),
-    "alpha_c_external": CodeValue(25.0, "W/(m2 K)", "EN 1991-1-2 3.2.2(2), external fire curve", 1.0, 500.0),
-    "alpha_c_hydrocarbon": CodeValue(50.0, "W/(m2 K)", "EN 1991-1-2 3.2.3(2), hydrocarbon curve", 1.0, 500.0),
-    "alpha_c_natural": CodeValue(35.0, "W/(m2 K)", "EN 1991-1-2 3.3.1.1(3) and Annex A, natural fire models", 1.0, 500.0),
-    "emissivity_fire": CodeValue(1.0, "-", "EN 1991-1-2 3.1(6), emissivity of the fire", 0.01, 1.0),
-    "emissivity_steel": CodeValue(0.7, "-", "EN 1993-1-2 2.2(2), surface emissivity of carbon steel", 0.01, 1.0),
-    "configuration_factor": CodeValue(1.0, "-", "EN 1991-1-2 3.1(7), configuration factor", 0.01, 1.0),
+    "alpha_c_standard": _v(25, "W/(m2 K)", "EN 1991-1-2 3.2.1(3), standard curve", 1, 500),
+    "alpha_c_external": _v(25, "W/(m2 K)", "EN 1991-1-2 3.2.2(2), external fire curve", 1, 500),
+    "alpha_c_hydrocarbon": _v(50, "W/(m2 K)", "EN 1991-1-2 3.2.3(2), hydrocarbon curve", 1, 500),
+    "alpha_c_natural": _v(35, "W/(m2 K)", "EN 1991-1-2 3.3.1.1(3) and Annex A, natural fire models", 1, 500),
+    "emissivity_fire": _v(1.0, "-", "EN 1991-1-2 3.1(6), emissivity of the fire", 0.01, 1),
+    "emissivity_steel": _v(0.7, "-", "EN 1993-1-2 2.2(2), surface emissivity of carbon steel", 0.01, 1),
+    "configuration_factor": _v(1.0, "-", "EN 1991-1-2 3.1(7), configuration factor", 0.01, 1),
     # EN 1993-1-2
-    "steel_density_kg_m3": CodeValue(7850.0, "kg/m3", "EN 1993-1-2 3.2.2(1), unit mass of steel", 1000.0, 20000.0),
-    "shadow_factor_i_nominal": CodeValue(0.9, "-", "EN 1993-1-2 4.2.5.1(2), eq (4.26a)", 0.0, 1.0),
-    "section_factor_min_bare_per_m": CodeValue(10.0, "1/m", "EN 1993-1-2 4.2.5.1(1), Am/V not below 10 m-1", 0.0, 1000.0),
-    "max_time_step_bare_s": CodeValue(5.0, "s", "EN 1993-1-2 4.2.5.1(4), time step not more than 5 s", 0.01, 60.0),
-    "max_time_step_protected_s": CodeValue(30.0, "s", "EN 1993-1-2 4.2.5.2(3), time step not more than 30 s", 0.01, 300.0),
+    "steel_density_kg_m3": _v(7850, "kg/m3", "EN 1993-1-2 3.2.2(1), unit mass of steel", 1000, 20000),
+    "shadow_factor_i_nominal": _v(0.9, "-", "EN 1993-1-2 4.2.5.1(2), eq (4.26a): k_sh = 0.9 [Am/V]b/[Am/V]",
+                                  0.01, 1),
+    "section_factor_min_bare_per_m": _v(10, "1/m", "EN 1993-1-2 4.2.5.1(1), Am/V not below 10 m-1", 0, 1000),
+    "max_time_step_bare_s": _v(5, "s", "EN 1993-1-2 4.2.5.1(4), time step not more than 5 s", 0.01, 60),
+    "max_time_step_protected_s": _v(30, "s", "EN 1993-1-2 4.2.5.2(3), time step not more than 30 s", 0.01, 300),
+    # EN 1991-1-2 Annex F (informative): time equivalence
+    "annex_f_kb_high_inertia": _v(0.04, "min m2/MJ", "EN 1991-1-2 Table F.2, b > 2500", 0.001, 1),
+    "annex_f_kb_medium_inertia": _v(0.055, "min m2/MJ", "EN 1991-1-2 Table F.2, 720 <= b <= 2500", 0.001, 1),
+    "annex_f_kb_low_inertia": _v(0.07, "min m2/MJ", "EN 1991-1-2 Table F.2, b < 720", 0.001, 1),
+    "annex_f_kb_general": _v(0.07, "min m2/MJ", "EN 1991-1-2 F.(3), k_b where b is not assessed", 0.001, 1),
+    "annex_f_inertia_lower_limit": _v(720, "J/(m2 s^0.5 K)", "EN 1991-1-2 Table F.2, band limit 720", 1, 1e5),
+    "annex_f_inertia_upper_limit": _v(2500, "J/(m2 s^0.5 K)", "EN 1991-1-2 Table F.2, band limit 2500", 1, 1e5),
+    "annex_f_wf_reference_height_m": _v(6.0, "m", "EN 1991-1-2 eq (F.2), (6.0/H)^0.3", 0.1, 100),
+    "annex_f_wf_height_exponent": _v(0.3, "-", "EN 1991-1-2 eq (F.2), (6.0/H)^0.3", 0.01, 2),
+    "annex_f_wf_base": _v(0.62, "-", "EN 1991-1-2 eq (F.2), 0.62", 0.01, 10),
+    "annex_f_wf_coefficient": _v(90, "-", "EN 1991-1-2 eq (F.2), 90 (0.4 - alpha_v)^4", 0.1, 1000),
+    "annex_f_wf_alpha_v_reference": _v(0.4, "-", "EN 1991-1-2 eq (F.2), (0.4 - alpha_v)^4", 0.26, 1),
+    "annex_f_wf_min": _v(0.5, "-", "EN 1991-1-2 eq (F.2), w_f >= 0.5", 0.01, 10),
+    "annex_f_bv_coefficient": _v(12.5, "-", "EN 1991-1-2 eq (F.2), b_v = 12.5 (1 + 10 alpha_v - alpha_v^2)", 0.1, 100),
+    "annex_f_bv_linear": _v(10, "-", "EN 1991-1-2 eq (F.2), b_v = 12.5 (1 + 10 alpha_v - alpha_v^2)", 0.1, 100),
+    "annex_f_bv_min": _v(10, "-", "EN 1991-1-2 eq (F.2), b_v >= 10.0", 0.1, 100),
+    "annex_f_alpha_v_min": _v(0.025, "-", "EN 1991-1-2 eq (F.2), validity 0.025 <= alpha_v", 0.001, 1),
+    "annex_f_alpha_v_max": _v(0.25, "-", "EN 1991-1-2 eq (F.2), validity alpha_v <= 0.25", 0.001, 1),
+    "annex_f_small_compartment_max_floor_area_m2": _v(100, "m2", "EN 1991-1-2 eq (F.3), A_f < 100 m2", 1, 1e4),
+    "annex_f_kc_protected_steel": _v(1.0, "-", "EN 1991-1-2 Table F.1, protected steel", 0.1, 10),
+    "annex_f_kc_reinforced_concrete": _v(1.0, "-", "EN 1991-1-2 Table F.1, reinforced concrete", 0.1, 10),
+    "annex_f_kc_bare_steel_per_o": _v(13.7, "m^-0.5", "EN 1991-1-2 Table F.1, unprotected steel k_c = 13.7 O",
+                                      0.1, 100),
+    # CIB W14 time equivalence (not a Eurocode): values from memory of textbook reproductions
+    "cib_w14_kc_high_inertia": _v(0.05, "min m^2.25/MJ", "CIB W14 design guide (1986), b > 2500 (from memory)",
+                                  0.001, 1),
+    "cib_w14_kc_medium_inertia": _v(0.07, "min m^2.25/MJ",
+                                    "CIB W14 design guide (1986), 720 <= b <= 2500 (from memory)", 0.001, 1),
+    "cib_w14_kc_low_inertia": _v(0.09, "min m^2.25/MJ", "CIB W14 design guide (1986), b < 720 (from memory)",
+                                 0.001, 1),
+    "cib_w14_kc_general": _v(0.1, "min m^2.25/MJ", "CIB W14 design guide (1986), b unknown (from memory)", 0.001, 1),
+    "cib_w14_inertia_lower_limit": _v(720, "J/(m2 s^0.5 K)", "CIB W14 band limit 720 (assumed as Table F.2)", 1, 1e5),
+    "cib_w14_inertia_upper_limit": _v(2500, "J/(m2 s^0.5 K)", "CIB W14 band limit 2500 (assumed as Table F.2)",
+                                      1, 1e5),
 }
 
+#: Pairs of values that must stay ordered (lower < upper) after overrides.
+ORDERED_PAIRS = (
+    ("annex_a_opening_factor_min", "annex_a_opening_factor_max"),
+    ("annex_a_thermal_inertia_min", "annex_a_thermal_inertia_max"),
+    ("annex_a_fire_load_min_MJ_m2", "annex_a_fire_load_max_MJ_m2"),
+    ("annex_f_inertia_lower_limit", "annex_f_inertia_upper_limit"),
+    ("annex_f_alpha_v_min", "annex_f_alpha_v_max"),
+    ("cib_w14_inertia_lower_limit", "cib_w14_inertia_upper_limit"),
+)
 
-#: The definitions, read-only: name -> CodeValue(value, unit, clause, minimum, maximum).
+
+#: The definitions, read-only: name -> CodeValue.
 DEFINITIONS = MappingProxyType(_DEFS)
+#: The EN recommended values, read-only: name -> value.
+DEFAULTS = MappingProxyType({k: v.value for k, v in _DEFS.items()})
+
 
 def resolve(overrides=None, field_prefix: str = "code") -> dict:
-    """Code values in force: the EN recommended values updated by ``overrides``.
+    """Code values in force: the EN recommended values updated by ``overrides`` (name -> number).
 
-    Unknown names and values outside the entry's admissible range raise InputError.
+    Unknown names, values that are not numbers, values outside an entry's range and ordered pairs
+    turned round raise InputError naming ``code.<name>``.
     """
-    from steelfire.errors import InputError
-
     values = dict(DEFAULTS)
     for name, value in (overrides or {}).items():
-        if name not in _DEFS:
-            import difflib
-
-            close = difflib.get_close_matches(name, list(_DEFS), n=3)
+        field = f"{field_prefix}.{name}"
+        if not isinstance(name, str) or name not in _DEFS:
+            close = difflib.get_close_matches(str(name), list(_DEFS), n=3)
             hint = f"; did you mean {', '.join(close)}?" if close else ""
-            raise InputError(f"{field_prefix}.{name}", value, "not a known code value name" + hint)
+            raise InputError(field, value, "not a known code value name" + hint)
         d = _DEFS[name]
-        if isinstance(value, bool) or not isinstance(value, (int, float)):
-            raise InputError(f"{field_prefix}.{name}", value, f"must be a number [{d.unit}]")
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+            raise InputError(field, value, f"must be a number [{d.unit}]")
         if not (d.minimum <= float(value) <= d.maximum):
-            raise InputError(f"{field_prefix}.{name}", value,
-                             f"must be between {d.minimum:g} and {d.maximum:g} [{d.unit}]")
+            raise InputError(field, value, f"must be between {d.minimum:g} and {d.maximum:g} [{d.unit}]")
         values[name] = float(value)
+    for low, high in ORDERED_PAIRS:
+        if not values[low] < values[high]:
+            raise InputError(f"{field_prefix}.{low}", values[low], f"must be below {field_prefix}.{high} = {values[high]:g}")
     return values
-
-
-def _register_equivalence():
-    # The time-equivalence module keeps its own table of clause values (Annex F, CIB W14);
-    # they are registered here so that [code] can override them like any other.
-    from steelfire.models.equivalence import CODE_VALUE_SOURCES, DEFAULT_CODE_VALUES
-
-    for name, value in DEFAULT_CODE_VALUES.items():
-        unit, clause = CODE_VALUE_SOURCES[name]
-        _DEFS[name] = CodeValue(float(value), unit, clause, 0.0, 1e6)
-
-
-_register_equivalence()
-#: The EN recommended values, name -> value.
-DEFAULTS = MappingProxyType({k: v.value for k, v in _DEFS.items()})

@@ -12,7 +12,7 @@ Two criteria per member (EN 1993-1-2 4.2.5.2 steel temperatures, 4.2.4 critical 
   the thickness range is scanned upward and the first passing interval is bisected.
 
 All members advance together: every scan point and every bisection step is one call of the batch
-kernel :func:`steelfire.heat.batch` over the whole schedule (not one root-find per member).
+kernels (:func:`steelfire.models.heat.run`) over the whole schedule (not one root-find per member).
 Results say how they ended (achievable, iterations, final bracket width).
 """
 
@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from steelfire.models import heat
+from steelfire.chain import thermal
 
 #: Bisection stops when the bracket is this narrow [m] (0.1 mm).
 TOLERANCE_M = 1e-4
@@ -34,33 +34,13 @@ SCAN_POINTS = 64
 
 
 @dataclass
-class ThermalSet:
-    """Protected members as kernel arrays (thickness-free); ``moisture_percent`` and ``lam20``
-    give the moisture delay at each trial thickness (:func:`steelfire.heat.moisture_delay_s`)."""
-
-    ap_v: np.ndarray
-    rho_p: np.ndarray
-    c_p: np.ndarray
-    lam_T: np.ndarray
-    lam_v: np.ndarray
-    lam_n: np.ndarray
-    moisture_percent: np.ndarray
-    lam20: np.ndarray
-
-    def take(self, idx):
-        return ThermalSet(*(getattr(self, f)[idx] for f in self.__dataclass_fields__))
-
-    def __len__(self):
-        return len(self.ap_v)
-
-
-@dataclass
 class Fire:
     """A gas curve on its grid with the convective coefficient that goes with it."""
 
     time_s: np.ndarray
     gas_C: np.ndarray
     alpha_c: float
+    nominal: bool = False
 
 
 @dataclass
@@ -75,37 +55,38 @@ class Criterion:
 
 
 class Problem:
-    """The schedule's sizing problem: members, the two fires, limits and the constants of the kernel."""
+    """The schedule's sizing problem: the protected members (rows ``members`` of the run's
+    :class:`~steelfire.chain.thermal.MemberColumns`), their critical temperatures and required periods,
+    the two fires and the code values."""
 
-    def __init__(self, members: ThermalSet, critical_C, required_s, standard: Fire, design: Fire | None,
-                 eps_res: float, rho_a: float):
-        self.m = members
+    def __init__(self, cols, members, critical_C, required_s, standard: Fire, design: Fire | None, code):
+        self.cols = cols
+        self.members = np.asarray(members, dtype=np.int64)
         self.critical_C = np.asarray(critical_C, dtype=float)
         self.required_s = np.asarray(required_s, dtype=float)  # NaN: no standard period asked
         self.standard = standard
         self.design = design
-        self.eps_res = eps_res
-        self.rho_a = rho_a
+        self.code = code
         self.kernel_calls = 0
 
+    def __len__(self):
+        return len(self.members)
+
     def _run(self, fire: Fire, idx, d_m, threshold):
-        s = self.m.take(idx)
-        n = len(idx)
-        delay = np.where(s.moisture_percent > 0.0,
-                         60.0 * s.moisture_percent * s.rho_p * d_m ** 2 / (5.0 * s.lam20), 0.0)
         self.kernel_calls += 1
-        return heat.batch(fire.time_s, fire.gas_C, np.zeros(n, dtype=np.bool_), s.ap_v, fire.alpha_c,
-                          self.eps_res, self.rho_a, np.asarray(d_m, dtype=float), s.rho_p, s.c_p, s.lam_T,
-                          s.lam_v, s.lam_n, delay, threshold, np.zeros(0, dtype=np.int64), False)
+        rows = self.cols.rows(alpha_c=fire.alpha_c, nominal_fire=fire.nominal, select=self.members[idx],
+                              thickness_mm=np.asarray(d_m, dtype=float) * 1e3, thresholds_C=threshold)
+        return thermal.run(self.code, fire.time_s, fire.gas_C, rows)
 
     def standard_passes(self, idx, d_m):
         """Reaches the critical temperature no earlier than required (standard fire)."""
-        peak, _, cross = self._run(self.standard, idx, d_m, self.critical_C[idx])[:3]
+        r = self._run(self.standard, idx, d_m, self.critical_C[idx])
+        peak, cross = r.peak_C, r.crossing_time_s
         return np.isfinite(peak) & (np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9))
 
     def burnout_passes(self, idx, d_m):
         """Peak over the whole design fire at most the critical temperature."""
-        peak = self._run(self.design, idx, d_m, np.full(len(idx), np.inf))[0]
+        peak = self._run(self.design, idx, d_m, np.full(len(idx), np.inf)).peak_C
         return np.isfinite(peak) & (peak <= self.critical_C[idx])
 
     def passes(self, idx, d_m):
@@ -140,7 +121,7 @@ def _bisect(test, idx, lo, hi, tol):
 
 def size_standard_period(p: Problem, d_min_m, d_max_m, tol_m=TOLERANCE_M) -> Criterion:
     """Least thickness meeting the standard period, members with a required period (others NaN)."""
-    n = len(p.m)
+    n = len(p)
     out = np.full(n, np.nan)
     failing = np.full(n, np.nan)
     achievable = np.ones(n, dtype=bool)
@@ -178,7 +159,7 @@ def size_burnout(p: Problem, grids, tol_m=TOLERANCE_M) -> Criterion:
     """Least thickness whose design-fire peak (cooling included) is at most critical: the scan
     ``grids`` (one ascending array per member, :func:`scan_grid`) are tried upward in one batch,
     then the first passing interval is bisected."""
-    n = len(p.m)
+    n = len(p)
     out = np.full(n, np.nan)
     failing = np.full(n, np.nan)
     bracket = np.zeros(n)
@@ -239,3 +220,125 @@ def round_up_and_verify(p: Problem, failing_m, achievable, supplied_m):
                 nxt.append(i)
         active = np.array(nxt, dtype=np.int64)
     return chosen, ok_out
+
+
+# ----------------------------------------------------------------------------------------------
+# the schedule: least thickness per member, then the check at the chosen thicknesses
+
+
+def _sizing_fires(case):
+    """The standard fire up to the longest required period and the design fire, as :class:`Fire`."""
+    from steelfire.chain import fires
+
+    step = case.analysis.time_step_s
+    fire = fires.design_fire(case)
+    t = fires.time_grid(case.fire.duration_min * 60.0, step, fire.key_times_s)
+    design = Fire(t, np.asarray(fire.gas_temperature_C(t), dtype=float), float(fire.alpha_c), fire.nominal)
+    req = [m.required_minutes for m in case.members if m.required_minutes is not None]
+    ts, gs = fires.standard_fire(case, max(req) if req else step / 60.0)
+    standard = Fire(ts, gs, float(case.code["alpha_c_standard"]), True)
+    return standard, design
+
+
+def _empty(note=""):
+    return {"standard_period_mm": None, "burnout_mm": None, "governing": None, "chosen_mm": None,
+            "achievable": None, "note": note, "supplied_range_mm": None, "iterations": None}
+
+
+def size_members(case):
+    """Least thickness per protected member for its standard period and for burnout, the governing one,
+    and the least supplied thickness that passes both (checked, since the burnout peak need not fall
+    with thickness). Returns (a sizing dict per member in schedule order, kernel calls)."""
+    from steelfire.chain import verdicts
+    from steelfire.models import stability
+
+    code = case.code
+    members = case.members
+    out = [None] * len(members)
+    prot = np.array([i for i, m in enumerate(members) if m.protected], dtype=np.int64)
+    calls = 0
+    if len(prot):
+        cols = thermal.MemberColumns(case)
+        standard, design = _sizing_fires(case)
+        sub = [members[i] for i in prot]
+        mats = [case.materials[m.protection] for m in sub]
+        crit = verdicts.critical_temperatures(sub)[0]
+        req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
+        p = Problem(cols, prot, crit, req, standard, design, code)
+        supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]
+        # trial thicknesses start where the explicit eq (4.27) is stable at this time step
+        stable = stability.stable_min_thickness_m(
+            np.array([max(v for _, v in mat.conductivity_table) for mat in mats]),
+            np.array([mat.specific_heat for mat in mats]), np.array([mat.density for mat in mats]),
+            cols.section_factor_per_m[prot], case.analysis.time_step_s, code["steel_density_kg_m3"])
+        supplied = [sp[sp >= st] if np.any(sp >= st) else sp[-1:] for sp, st in zip(supplied, stable)]
+        d_min = np.array([s[0] for s in supplied])
+        d_max = np.array([s[-1] for s in supplied])
+        a = size_standard_period(p, d_min, d_max)
+        b = size_burnout(p, [scan_grid(sp) for sp in supplied])
+        a_mm = np.where(np.isnan(a.thickness_m), np.nan, a.thickness_m * 1e3)
+        b_mm = b.thickness_m * 1e3
+        failing = np.fmax(a.failing_m, b.failing_m)  # NaN only where both pass at the least thickness
+        chosen, ok = round_up_and_verify(p, failing, a.achievable & b.achievable, supplied)
+        for j, i in enumerate(prot):
+            has_std = not np.isnan(req[j])
+            std_v = float(a_mm[j]) if has_std and a.achievable[j] else None
+            burn_v = float(b_mm[j]) if b.achievable[j] else None
+            if ok[j]:
+                governing = "standard_period" if (std_v is not None and (burn_v is None or std_v >= burn_v)) \
+                    else "burnout"
+                note = ""
+            else:
+                governing = None
+                why = []
+                if has_std and not a.achievable[j]:
+                    why.append(f"the standard period ({sub[j].required_minutes:g} min)")
+                if not b.achievable[j]:
+                    why.append("burnout of the design fire")
+                if why:
+                    note = (f"not achievable within the material's largest thickness "
+                            f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
+                else:
+                    note = ("not achievable: each criterion alone is met (standard period from "
+                            f"{a_mm[j]:.1f} mm, burnout from {b_mm[j]:.1f} mm) but no supplied thickness "
+                            "meets both (the burnout peak rises again with thickness)")
+            out[i] = {"standard_period_mm": std_v, "burnout_mm": burn_v, "governing": governing,
+                      "chosen_mm": float(chosen[j] * 1e3) if ok[j] else None, "achievable": bool(ok[j]),
+                      "note": note, "supplied_range_mm": [float(supplied[j][0] * 1e3), float(supplied[j][-1] * 1e3)],
+                      "iterations": {"standard_period": a.iterations, "burnout": b.iterations}}
+        calls = p.kernel_calls
+    return [s if s is not None else _empty() for s in out], calls
+
+
+def size(case, histories: bool = True):
+    """Size every protected member (:func:`size_members`), then check the schedule at the chosen
+    thicknesses (a member that cannot be sized is checked at its given thickness, or at the material's
+    largest one). The result's members carry ``sizing``."""
+    import dataclasses
+
+    from steelfire.chain.analysis import analyse
+    from steelfire.chain.verdicts import names_text
+
+    sized, _ = size_members(case)
+    members = []
+    for m, s in zip(case.members, sized):
+        if m.protected:
+            d = s["chosen_mm"] if s["chosen_mm"] is not None else (
+                m.thickness_mm if m.thickness_mm is not None else s["supplied_range_mm"][1])
+            members.append(dataclasses.replace(m, thickness_mm=d))
+        else:
+            members.append(m)
+    result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
+    for r, s, m in zip(result.members, sized, case.members):
+        s["given_mm"] = m.thickness_mm
+        if s["achievable"] is None:  # bare member
+            ok = r.ok
+            s.update(achievable=ok, chosen_mm=0.0 if ok else None,
+                     note="bare steel passes: no protection needed" if ok else
+                     "bare steel fails; name a protection material (protection = ...) to size it")
+    result.table.sizing = sized
+    result.command = "size"
+    not_ok = [r.name for r, s in zip(result.members, sized) if not s["achievable"]]
+    if not_ok:
+        result.warnings.append(f"Sizing: not achievable for {names_text(not_ok)} (see each member's sizing note).")
+    return result

@@ -8,11 +8,11 @@ Two closed-form methods, as pure functions (numbers in, frozen dataclass results
   (k_c, Table F.2); the small-compartment alternative eq (F.3) is reported beside the main result.
 * CIB W14: ``t_e = k_c * w * q_f,d``  -> :func:`cib_w14_time_equivalence`.
 
-Every coefficient taken from a clause is a named module constant; each can be overridden through a
-``code`` mapping whose keys are the lower-case constant names (see :data:`DEFAULT_CODE_VALUES`), and each
-result echoes the values it used in ``code_values``. Keys in the ``annex_f_`` / ``cib_w14_`` namespaces
-that are not known raise :class:`~steelfire.errors.InputError` (a typo must not pass silently); keys of
-other namespaces are ignored, so the case file's whole ``[code]`` table may be passed in.
+Every coefficient taken from a clause is an entry of the code-value registry (:mod:`steelfire.codevalues`)
+and can be overridden through a ``code`` mapping of registry names; each result echoes the values it used
+in ``code_values``. Unknown names in the ``annex_f_`` / ``cib_w14_`` namespaces raise
+:class:`~steelfire.errors.InputError` (a typo must not pass silently); names of other namespaces are
+ignored, so the case file's whole ``[code]`` table may be passed in.
 
 Units: areas [m2], heights [m], fire load density per floor area [MJ/m2], thermal inertia
 b = sqrt(rho c lambda) [J/(m2 s^0.5 K)], opening factor O = A_v sqrt(h_eq) / A_t [m^0.5], times [min].
@@ -26,11 +26,10 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Any, Mapping, Optional
 
+from steelfire import codevalues
 from steelfire.errors import InputError
 
 __all__ = [
-    "DEFAULT_CODE_VALUES",
-    "CODE_VALUE_SOURCES",
     "ANNEX_F_SCOPE_NOTES",
     "CIB_W14_SCOPE_NOTES",
     "AnnexFVentilationFactor",
@@ -46,119 +45,10 @@ __all__ = [
     "cib_w14_time_equivalence",
 ]
 
-# ---------------------------------------------------------------------------------------------------
-# EN 1991-1-2 Annex F (informative) -- recommended values. Clause references are to the equations and
-# tables of Annex F; the annex's paragraph numbering is not relied on here.
-# ---------------------------------------------------------------------------------------------------
-ANNEX_F_KB_HIGH_INERTIA = 0.04        # Table F.1: b > 2500            -> k_b [min m2/MJ]
-ANNEX_F_KB_MEDIUM_INERTIA = 0.055     # Table F.1: 720 <= b <= 2500    -> k_b [min m2/MJ]
-ANNEX_F_KB_LOW_INERTIA = 0.07         # Table F.1: b < 720             -> k_b [min m2/MJ]
-ANNEX_F_KB_GENERAL = 0.07             # Annex F, note to Table F.1: k_b when b is not assessed [min m2/MJ]
-ANNEX_F_INERTIA_LOWER_LIMIT = 720.0   # Table F.1 band limit [J/(m2 s^0.5 K)]; b = 720 is in the middle band
-ANNEX_F_INERTIA_UPPER_LIMIT = 2500.0  # Table F.1 band limit [J/(m2 s^0.5 K)]; b = 2500 is in the middle band
-ANNEX_F_WF_REFERENCE_HEIGHT_M = 6.0   # eq (F.2): (6.0 / H)^0.3 [m]
-ANNEX_F_WF_HEIGHT_EXPONENT = 0.3      # eq (F.2): (6.0 / H)^0.3 [-]
-ANNEX_F_WF_BASE = 0.62                # eq (F.2): 0.62 + ... [-]
-ANNEX_F_WF_COEFFICIENT = 90.0         # eq (F.2): 90 (0.4 - alpha_v)^4 [-]
-ANNEX_F_WF_ALPHA_V_REFERENCE = 0.4    # eq (F.2): (0.4 - alpha_v)^4 [-]
-ANNEX_F_WF_MIN = 0.5                  # eq (F.2): w_f >= 0.5 [-]
-ANNEX_F_BV_COEFFICIENT = 12.5         # eq (F.2): b_v = 12.5 (1 + 10 alpha_v - alpha_v^2) [-]
-ANNEX_F_BV_LINEAR = 10.0              # eq (F.2): the 10 in b_v = 12.5 (1 + 10 alpha_v - alpha_v^2) [-]
-ANNEX_F_BV_MIN = 10.0                 # eq (F.2): b_v >= 10.0 [-]
-ANNEX_F_ALPHA_V_MIN = 0.025           # eq (F.2) validity: 0.025 <= alpha_v [-]
-ANNEX_F_ALPHA_V_MAX = 0.25            # eq (F.2) validity: alpha_v <= 0.25 [-]
-ANNEX_F_SMALL_COMPARTMENT_MAX_FLOOR_AREA_M2 = 100.0  # eq (F.3): for A_f < 100 m2 without roof openings
-ANNEX_F_KC_PROTECTED_STEEL = 1.0      # Table F.2: protected steel [-]
-ANNEX_F_KC_REINFORCED_CONCRETE = 1.0  # Table F.2: reinforced concrete [-]
-ANNEX_F_KC_BARE_STEEL_PER_O = 13.7    # Table F.2: unprotected steel, k_c = 13.7 O [m^-0.5]
-
-# ---------------------------------------------------------------------------------------------------
-# CIB W14 -- k_c by thermal-inertia band. Source: CIB W14 design guide on structural fire safety (1986)
-# as reproduced in fire-engineering textbooks; values FROM MEMORY, not checked against the guide.
-# Band limits assumed to follow EN 1991-1-2 Table F.1 (720 and 2500 both in the middle band).
-# ---------------------------------------------------------------------------------------------------
-CIB_W14_KC_HIGH_INERTIA = 0.05        # b > 2500            -> k_c [min m^2.25/MJ]
-CIB_W14_KC_MEDIUM_INERTIA = 0.07      # 720 <= b <= 2500    -> k_c [min m^2.25/MJ]
-CIB_W14_KC_LOW_INERTIA = 0.09         # b < 720             -> k_c [min m^2.25/MJ]
-CIB_W14_KC_GENERAL = 0.1              # b unknown: general value [min m^2.25/MJ]
-CIB_W14_INERTIA_LOWER_LIMIT = 720.0   # band limit [J/(m2 s^0.5 K)]; b = 720 in the middle band
-CIB_W14_INERTIA_UPPER_LIMIT = 2500.0  # band limit [J/(m2 s^0.5 K)]; b = 2500 in the middle band
-
+# The clause values (k_b, w_f, b_v, k_c, the CIB W14 factors, band limits) are defined once, in the
+# code-value registry (steelfire.codevalues), under the names this module reads.
 _ANNEX_F_PREFIX = "annex_f_"
 _CIB_W14_PREFIX = "cib_w14_"
-
-#: Every overridable value, keyed by its ``[code]`` name, at its recommended (default) value.
-DEFAULT_CODE_VALUES: Mapping[str, float] = MappingProxyType(
-    {
-        "annex_f_kb_high_inertia": ANNEX_F_KB_HIGH_INERTIA,
-        "annex_f_kb_medium_inertia": ANNEX_F_KB_MEDIUM_INERTIA,
-        "annex_f_kb_low_inertia": ANNEX_F_KB_LOW_INERTIA,
-        "annex_f_kb_general": ANNEX_F_KB_GENERAL,
-        "annex_f_inertia_lower_limit": ANNEX_F_INERTIA_LOWER_LIMIT,
-        "annex_f_inertia_upper_limit": ANNEX_F_INERTIA_UPPER_LIMIT,
-        "annex_f_wf_reference_height_m": ANNEX_F_WF_REFERENCE_HEIGHT_M,
-        "annex_f_wf_height_exponent": ANNEX_F_WF_HEIGHT_EXPONENT,
-        "annex_f_wf_base": ANNEX_F_WF_BASE,
-        "annex_f_wf_coefficient": ANNEX_F_WF_COEFFICIENT,
-        "annex_f_wf_alpha_v_reference": ANNEX_F_WF_ALPHA_V_REFERENCE,
-        "annex_f_wf_min": ANNEX_F_WF_MIN,
-        "annex_f_bv_coefficient": ANNEX_F_BV_COEFFICIENT,
-        "annex_f_bv_linear": ANNEX_F_BV_LINEAR,
-        "annex_f_bv_min": ANNEX_F_BV_MIN,
-        "annex_f_alpha_v_min": ANNEX_F_ALPHA_V_MIN,
-        "annex_f_alpha_v_max": ANNEX_F_ALPHA_V_MAX,
-        "annex_f_small_compartment_max_floor_area_m2": ANNEX_F_SMALL_COMPARTMENT_MAX_FLOOR_AREA_M2,
-        "annex_f_kc_protected_steel": ANNEX_F_KC_PROTECTED_STEEL,
-        "annex_f_kc_reinforced_concrete": ANNEX_F_KC_REINFORCED_CONCRETE,
-        "annex_f_kc_bare_steel_per_o": ANNEX_F_KC_BARE_STEEL_PER_O,
-        "cib_w14_kc_high_inertia": CIB_W14_KC_HIGH_INERTIA,
-        "cib_w14_kc_medium_inertia": CIB_W14_KC_MEDIUM_INERTIA,
-        "cib_w14_kc_low_inertia": CIB_W14_KC_LOW_INERTIA,
-        "cib_w14_kc_general": CIB_W14_KC_GENERAL,
-        "cib_w14_inertia_lower_limit": CIB_W14_INERTIA_LOWER_LIMIT,
-        "cib_w14_inertia_upper_limit": CIB_W14_INERTIA_UPPER_LIMIT,
-    }
-)
-
-#: Unit and source of each overridable value, name -> (unit, clause), for a code-value registry.
-CODE_VALUE_SOURCES: Mapping[str, tuple[str, str]] = MappingProxyType(
-    {
-        "annex_f_kb_high_inertia": ("min m2/MJ", "EN 1991-1-2 Table F.1, b > 2500"),
-        "annex_f_kb_medium_inertia": ("min m2/MJ", "EN 1991-1-2 Table F.1, 720 <= b <= 2500"),
-        "annex_f_kb_low_inertia": ("min m2/MJ", "EN 1991-1-2 Table F.1, b < 720"),
-        "annex_f_kb_general": ("min m2/MJ", "EN 1991-1-2 Annex F, k_b where b is not assessed"),
-        "annex_f_inertia_lower_limit": ("J/(m2 s^0.5 K)", "EN 1991-1-2 Table F.1, band limit 720"),
-        "annex_f_inertia_upper_limit": ("J/(m2 s^0.5 K)", "EN 1991-1-2 Table F.1, band limit 2500"),
-        "annex_f_wf_reference_height_m": ("m", "EN 1991-1-2 eq (F.2), (6.0/H)^0.3"),
-        "annex_f_wf_height_exponent": ("-", "EN 1991-1-2 eq (F.2), (6.0/H)^0.3"),
-        "annex_f_wf_base": ("-", "EN 1991-1-2 eq (F.2), 0.62"),
-        "annex_f_wf_coefficient": ("-", "EN 1991-1-2 eq (F.2), 90 (0.4 - alpha_v)^4"),
-        "annex_f_wf_alpha_v_reference": ("-", "EN 1991-1-2 eq (F.2), (0.4 - alpha_v)^4"),
-        "annex_f_wf_min": ("-", "EN 1991-1-2 eq (F.2), w_f >= 0.5"),
-        "annex_f_bv_coefficient": ("-", "EN 1991-1-2 eq (F.2), b_v = 12.5 (1 + 10 alpha_v - alpha_v^2)"),
-        "annex_f_bv_linear": ("-", "EN 1991-1-2 eq (F.2), b_v = 12.5 (1 + 10 alpha_v - alpha_v^2)"),
-        "annex_f_bv_min": ("-", "EN 1991-1-2 eq (F.2), b_v >= 10.0"),
-        "annex_f_alpha_v_min": ("-", "EN 1991-1-2 eq (F.2), validity 0.025 <= alpha_v"),
-        "annex_f_alpha_v_max": ("-", "EN 1991-1-2 eq (F.2), validity alpha_v <= 0.25"),
-        "annex_f_small_compartment_max_floor_area_m2": ("m2", "EN 1991-1-2 eq (F.3), A_f < 100 m2"),
-        "annex_f_kc_protected_steel": ("-", "EN 1991-1-2 Table F.2, protected steel"),
-        "annex_f_kc_reinforced_concrete": ("-", "EN 1991-1-2 Table F.2, reinforced concrete"),
-        "annex_f_kc_bare_steel_per_o": ("m^-0.5", "EN 1991-1-2 Table F.2, unprotected steel k_c = 13.7 O"),
-        "cib_w14_kc_high_inertia": ("min m^2.25/MJ", "CIB W14 design guide (1986), b > 2500 (from memory)"),
-        "cib_w14_kc_medium_inertia": ("min m^2.25/MJ", "CIB W14 design guide (1986), 720 <= b <= 2500 (from memory)"),
-        "cib_w14_kc_low_inertia": ("min m^2.25/MJ", "CIB W14 design guide (1986), b < 720 (from memory)"),
-        "cib_w14_kc_general": ("min m^2.25/MJ", "CIB W14 design guide (1986), b unknown (from memory)"),
-        "cib_w14_inertia_lower_limit": ("J/(m2 s^0.5 K)", "CIB W14 band limit 720 (assumed as Table F.1)"),
-        "cib_w14_inertia_upper_limit": ("J/(m2 s^0.5 K)", "CIB W14 band limit 2500 (assumed as Table F.1)"),
-    }
-)
-
-#: Band-limit pairs that must stay ordered after overrides.
-_ORDERED_PAIRS = (
-    ("annex_f_inertia_lower_limit", "annex_f_inertia_upper_limit"),
-    ("annex_f_alpha_v_min", "annex_f_alpha_v_max"),
-    ("cib_w14_inertia_lower_limit", "cib_w14_inertia_upper_limit"),
-)
 
 ANNEX_F_SCOPE_NOTES = (
     "EN 1991-1-2 Annex F is informative: a national annex may forbid or alter its use.",
@@ -214,23 +104,15 @@ def _flag(name: str, value: Any) -> bool:
 
 
 def _code_values(code: Optional[Mapping[str, Any]], prefix: str) -> Mapping[str, float]:
-    """Values of one namespace (``prefix``), EN defaults overridden by ``code``; checked."""
+    """Values of one namespace (``prefix``): the registry's recommended values overridden by ``code``
+    (checked by :func:`steelfire.codevalues.resolve`; names of other namespaces are ignored)."""
     if code is not None and not isinstance(code, Mapping):
         raise InputError("code", code, "a mapping of [code] names to numbers")
-    values = {k: v for k, v in DEFAULT_CODE_VALUES.items() if k.startswith(prefix)}
-    for key, raw in (code or {}).items():
-        if not isinstance(key, str):
-            raise InputError("code", key, "[code] names are strings")
-        if not key.startswith(prefix):
-            continue  # another method's or module's value
-        if key not in values:
-            known = ", ".join(sorted(values))
-            raise InputError(f"code.{key}", raw, f"not a known name; known names: {known}")
-        values[key] = _positive(f"code.{key}", raw)
-    for low, high in _ORDERED_PAIRS:
-        if low in values and not values[low] < values[high]:
-            raise InputError(f"code.{low}", values[low], f"must be below code.{high} = {values[high]!r}")
-    return MappingProxyType(values)
+    mine = {k: v for k, v in (code or {}).items() if isinstance(k, str) and k.startswith(prefix)}
+    if any(not isinstance(k, str) for k in (code or {})):
+        raise InputError("code", next(k for k in code if not isinstance(k, str)), "[code] names are strings")
+    values = codevalues.resolve({k: v for k, v in mine.items() if codevalues.DEFAULTS.get(k) != v})
+    return MappingProxyType({k: v for k, v in values.items() if k.startswith(prefix)})
 
 
 def _check_geometry(

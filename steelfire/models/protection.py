@@ -4,7 +4,7 @@ The thermal model is that of EN 1993-1-2 4.2.5.2 eq (4.27): density rho_p [kg/m3
 c_p [J/(kg K)], thermal conductivity lambda_p [W/(m K)] either constant or an effective value
 tabulated by steel temperature (as product assessments by EN 13381-4/-8 give it), and free water
 p [% of dry weight] whose evaporation holds the steel at 100 C for t_v = p rho_p d_p^2 / (5 lambda_p)
-minutes (the ECCS method; :func:`steelfire.heat.moisture_delay_s`).
+minutes (the ECCS method; :func:`moisture_delay_s`).
 
 A material also says in which thicknesses it is supplied (a list, or a minimum, a maximum and a
 step) and the range it was assessed for (thickness, section factor, steel temperature, and whether
@@ -76,6 +76,24 @@ class Material:
         step = self.thickness_step_mm if self.thickness_step_mm is not None else DEFAULT_THICKNESS_STEP_MM
         n = int(math.floor((hi - lo) / step + 1e-9))
         return np.round(lo + step * np.arange(n + 1), 6)
+
+
+def moisture_delay_s(moisture_percent, density, thickness_m, conductivity):
+    """Delay t_v [s] during which free water in the protection holds the steel at 100 C.
+
+    t_v = p rho_p d_p^2 / (5 lambda_p) [min], p the moisture content [% of dry weight], rho_p [kg/m3],
+    d_p [m], lambda_p [W/(m K)] at 20 C: the ECCS method (ECCS TC3, Calculation of the fire resistance
+    of load bearing elements and structures, 1985), from memory. EN 1993-1-2 4.2.5.2(2) asks for the
+    delay from tests to EN 13381-4. Works on arrays; 0 where there is no moisture.
+
+    >>> round(moisture_delay_s(20.0, 800.0, 0.02, 0.2) / 60.0, 2)
+    6.4
+    """
+    p = np.asarray(moisture_percent, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        t = np.where(p > 0.0, 60.0 * p * np.asarray(density) * np.asarray(thickness_m) ** 2
+                     / (5.0 * np.asarray(conductivity)), 0.0)
+    return t if t.ndim else float(t)
 
 
 def assessment_warnings(material: Material, member: str, thickness_mm: float | None, section_factor_per_m: float,

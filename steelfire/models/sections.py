@@ -63,6 +63,7 @@ __all__ = [
     "section_factor_per_m",
     "box_section_factor_per_m",
     "shadow_factor",
+    "shadow_ratio",
 ]
 
 EXPOSURES = ("4-sided", "3-sided")
@@ -499,18 +500,29 @@ def box_section_factor_per_m(section: Section, exposure: str = "4-sided") -> flo
     return section_factor_per_m(section, exposure, "box")
 
 
-def shadow_factor(section: Section, exposure: str, nominal_fire: bool) -> float:
+def shadow_ratio(section: Section, exposure: str) -> float:
+    """[Am/V]b / [Am/V] [-]: the box value over the contour value of the section factor, for the same
+    ``exposure`` (EN 1993-1-2 4.2.5.1(2)); 1 for convex sections (hollow sections)."""
+    _check_section(section)
+    exposure = _choice("exposure", exposure, EXPOSURES)
+    if section.convex:
+        return 1.0
+    return section._heated_perimeter_mm(exposure, "box") / section._heated_perimeter_mm(exposure, "profile")
+
+
+def shadow_factor(section: Section, exposure: str, nominal_fire: bool, code=None) -> float:
     """Correction factor for the shadow effect k_sh [-] of an unprotected member.
 
     EN 1993-1-2 4.2.5.1(2):
 
-    * I sections under nominal fire actions, eq (4.26a): k_sh = 0.9 [Am/V]b / [Am/V];
+    * I sections under nominal fire actions, eq (4.26a): k_sh = 0.9 [Am/V]b / [Am/V] (the 0.9 is the
+      code value ``shadow_factor_i_nominal``);
     * other cases, eq (4.26b): k_sh = [Am/V]b / [Am/V];
     * convex sections (rectangular and circular hollow sections) fully embedded in the fire:
       k_sh = 1.
 
-    [Am/V]b is the box value and [Am/V] the contour value for the same ``exposure``. Taking
-    k_sh = 1 (ignoring the shadow effect) is conservative.
+    [Am/V]b is the box value and [Am/V] the contour value for the same ``exposure``
+    (:func:`shadow_ratio`). Taking k_sh = 1 (ignoring the shadow effect) is conservative.
 
     Parameters
     ----------
@@ -519,21 +531,22 @@ def shadow_factor(section: Section, exposure: str, nominal_fire: bool) -> float:
     nominal_fire : bool
         True for a nominal fire (standard, hydrocarbon, external curve), False for a natural fire
         (parametric or tabulated).
+    code : mapping, optional
+        Code values (``shadow_factor_i_nominal``); the EN recommended ones by default.
 
     Returns
     -------
     float
         k_sh, with 0 < k_sh <= 1.
     """
-    _check_section(section)
-    exposure = _choice("exposure", exposure, EXPOSURES)
+    ratio = shadow_ratio(section, exposure)
     if not isinstance(nominal_fire, bool):
         raise InputError("nominal_fire", nominal_fire, "True or False")
-    if section.convex:
-        return 1.0
-    ratio = (section._heated_perimeter_mm(exposure, "box")
-             / section._heated_perimeter_mm(exposure, "profile"))
-    return 0.9 * ratio if nominal_fire else ratio
+    if section.convex or not nominal_fire:
+        return ratio
+    from steelfire.codevalues import DEFAULTS
+
+    return (code if code is not None else DEFAULTS)["shadow_factor_i_nominal"] * ratio
 
 
 # --------------------------------------------------------------------------------------------

@@ -32,21 +32,50 @@ REDUCTION_FACTORS = np.array([
 UTILISATION_MIN = 0.013
 
 
+#: EN 1993-1-2 3.4.1.2, eq (3.2a)-(3.2d): the one definition of c_a in steelfire [J/(kg K)].
+#: (3.2a) 20 <= theta < 600: a0 + a1 theta + a2 theta^2 + a3 theta^3
+SPECIFIC_HEAT_CUBIC = (425.0, 7.73e-1, -1.69e-3, 2.22e-6)
+#: (3.2b) 600 <= theta < 735: 666 + 13002 / (738 - theta)
+SPECIFIC_HEAT_B = (666.0, 13002.0, 738.0)
+#: (3.2c) 735 <= theta < 900: 545 + 17820 / (theta - 731)
+SPECIFIC_HEAT_C = (545.0, 17820.0, 731.0)
+#: (3.2d) 900 <= theta <= 1200: 650
+SPECIFIC_HEAT_D = 650.0
+#: The branch limits [C]: 20, 600, 735, 900, 1200.
+SPECIFIC_HEAT_LIMITS_C = (20.0, 600.0, 735.0, 900.0, 1200.0)
+#: The same numbers in the order the batch kernels read them (steelfire.models.heat.heat_capacity_fraction).
+SPECIFIC_HEAT_KERNEL_TERMS = (SPECIFIC_HEAT_LIMITS_C[0], *SPECIFIC_HEAT_CUBIC, SPECIFIC_HEAT_LIMITS_C[2],
+                              SPECIFIC_HEAT_B[2], SPECIFIC_HEAT_B[0], SPECIFIC_HEAT_B[1], SPECIFIC_HEAT_C[2],
+                              SPECIFIC_HEAT_C[0], SPECIFIC_HEAT_C[1], SPECIFIC_HEAT_LIMITS_C[1],
+                              SPECIFIC_HEAT_LIMITS_C[3], SPECIFIC_HEAT_D)
+
+
 def specific_heat(steel_temperature_C):
     """Specific heat of carbon steel c_a [J/(kg K)], EN 1993-1-2 3.4.1.2, eq (3.2a)-(3.2d).
 
     20 <= theta < 600: 425 + 0.773 theta - 1.69e-3 theta^2 + 2.22e-6 theta^3;
     600 <= theta < 735: 666 + 13002 / (738 - theta); 735 <= theta < 900: 545 + 17820 / (theta - 731);
-    900 <= theta <= 1200: 650. Below 20 C the first branch, above 1200 C 650, are held.
+    900 <= theta <= 1200: 650. Below 20 C the 20 C value and above 1200 C 650 are held (the clause
+    stops there; callers warn where steel passes 1200 C).
+
+    >>> round(specific_heat(20.0), 1), round(specific_heat(735.0), 0), specific_heat(1000.0)
+    (439.8, 5000.0, 650.0)
     """
     th = np.asarray(steel_temperature_C, dtype=float)
-    t = np.clip(th, 20.0, 1200.0)
+    lim = SPECIFIC_HEAT_LIMITS_C
+    t = np.clip(th, lim[0], lim[4])
+    a0, a1, a2, a3 = SPECIFIC_HEAT_CUBIC
     with np.errstate(divide="ignore", invalid="ignore"):
         c = np.where(
-            t < 600.0, 425.0 + 7.73e-1 * t - 1.69e-3 * t ** 2 + 2.22e-6 * t ** 3,
-            np.where(t < 735.0, 666.0 + 13002.0 / (738.0 - t),
-                     np.where(t < 900.0, 545.0 + 17820.0 / (t - 731.0), 650.0)))
+            t < lim[1], a0 + a1 * t + a2 * t ** 2 + a3 * t ** 3,
+            np.where(t < lim[2], SPECIFIC_HEAT_B[0] + SPECIFIC_HEAT_B[1] / (SPECIFIC_HEAT_B[2] - t),
+                     np.where(t < lim[3], SPECIFIC_HEAT_C[0] + SPECIFIC_HEAT_C[1] / (t - SPECIFIC_HEAT_C[2]),
+                              SPECIFIC_HEAT_D)))
     return c if c.ndim else float(c)
+
+
+#: Smallest specific heat of carbon steel [J/(kg K)]: eq (3.2a) at 20 C (c_a rises from there).
+SPECIFIC_HEAT_MIN = specific_heat(20.0)
 
 
 def _table(col: int, steel_temperature_C):

@@ -10,6 +10,7 @@ from dataclasses import dataclass
 from typing import Sequence
 
 from steelfire.errors import InputError
+from steelfire.models.fire.design import Quantity
 
 
 @dataclass(frozen=True)
@@ -122,3 +123,65 @@ def weighted_thermal_inertia(surfaces: Sequence[Surface], boundary_area_m2: floa
 def total_area_fire_load(design_fire_load_MJ_m2: float, floor_area_m2: float, boundary_area_m2: float) -> float:
     """q_t,d = q_f,d A_f / A_t [MJ/m2]: design fire load per total enclosure area, EN 1991-1-2 Annex A (4), legend of eq (A.4)."""
     return design_fire_load_MJ_m2 * floor_area_m2 / boundary_area_m2
+
+
+@dataclass(frozen=True)
+class Compartment:
+    """A fire compartment: floor area A_f [m2], height H [m], enclosure area A_t [m2] (walls, floor and
+    ceiling, openings included), vertical openings, and either the thermal inertia b [J/(m2 s^0.5 K)]
+    or the layered surfaces it is weighted from; horizontal (roof) openings A_h [m2]."""
+
+    floor_area_m2: float
+    height_m: float
+    boundary_area_m2: float
+    openings: tuple
+    thermal_inertia: float | None = None
+    surfaces: tuple = ()
+    roof_opening_area_m2: float = 0.0
+
+
+#: The fire-severity values of a compartment, as the outputs show them.
+SEVERITY_QUANTITIES = (
+    Quantity("opening_factor_m05", "opening factor", "O", "m^0.5", "EN 1991-1-2 A.(3): A_v sqrt(h_eq) / A_t"),
+    Quantity("opening_height_m", "weighted opening height", "h_eq", "m", "EN 1991-1-2 A.(3)"),
+    Quantity("thermal_inertia", "thermal inertia of the enclosure", "b", "J/(m2 s^0.5 K)",
+             "EN 1991-1-2 A.(3), (8)-(9)"),
+    Quantity("design_fire_load_MJ_m2", "design fire load density (floor)", "q_f,d", "MJ/m2",
+             "EN 1991-1-2 E.(1): q_f,k m delta_q1 delta_q2 delta_n"),
+    Quantity("total_area_fire_load_MJ_m2", "design fire load density (enclosure)", "q_t,d", "MJ/m2",
+             "EN 1991-1-2 A.(4): q_f,d A_f / A_t"),
+    Quantity("vertical_opening_area_m2", "vertical opening area", "A_v", "m2", "EN 1991-1-2 A.(3)"),
+    Quantity("area_factor", "fire activation risk (compartment size)", "delta_q1", "-",
+             "EN 1991-1-2 Table E.1"),
+)
+
+
+def fire_severity(compartment: Compartment, fire_load, code) -> dict:
+    """O, h_eq, A_v, delta_q1, q_f,d, q_t,d, t_lim and b of a compartment with its fire load (EN 1991-1-2
+    Annex A (3)-(10) and Annex E); keys as :data:`SEVERITY_QUANTITIES` names them, t_lim as ``t_lim_h``.
+
+    b of layered surfaces needs t_max of eq (A.4), max(0.2e-3 q_t,d / O, t_lim).
+    """
+    from steelfire.models.fire import fireload
+
+    c, fl = compartment, fire_load
+    av = vertical_opening_area(c.openings)
+    heq = opening_height(c.openings)
+    o = opening_factor(av, heq, c.boundary_area_m2)
+    if fl.design_MJ_m2 is not None:
+        dq1 = None
+        qfd = fl.design_MJ_m2
+    else:
+        dq1 = fireload.area_factor(c.floor_area_m2, code) if fl.area_factor == "auto" else fl.area_factor
+        qfd = fireload.design_fire_load(fl.characteristic_MJ_m2, fl.combustion_factor, dq1,
+                                        fl.occupancy_factor, fl.measures_factor)
+    qtd = total_area_fire_load(qfd, c.floor_area_m2, c.boundary_area_m2)
+    t_lim_h = fireload.fire_growth_t_lim_h(fl.growth, code)
+    t_max_h = max(0.2e-3 * qtd / o, t_lim_h)
+    b = c.thermal_inertia if c.thermal_inertia is not None else \
+        weighted_thermal_inertia(c.surfaces, c.boundary_area_m2, av, t_max_h)
+    return {"opening_factor_m05": o, "opening_height_m": heq, "thermal_inertia": b,
+            "design_fire_load_MJ_m2": qfd, "total_area_fire_load_MJ_m2": qtd, "vertical_opening_area_m2": av,
+            "area_factor": dq1, "t_lim_h": t_lim_h}
+
+

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 from steelfire.codevalues import DEFAULTS
 from steelfire.errors import InputError
@@ -18,6 +19,21 @@ AREA_FACTOR_ROWS = (
 
 #: Growth rate -> code-value name of t_lim, EN 1991-1-2 Annex A (10) (slow 25, medium 20, fast 15 min).
 GROWTH_TLIM = {"slow": "t_lim_slow_min", "medium": "t_lim_medium_min", "fast": "t_lim_fast_min"}
+
+
+@dataclass(frozen=True)
+class FireLoad:
+    """The fire load of a compartment: the characteristic density q_f,k [MJ/m2 of floor] with the factors
+    of EN 1991-1-2 E.(1) (combustion m, delta_q1 or "auto" for Table E.1, delta_q2, delta_n), or the
+    design density q_f,d directly; and the fire growth rate (slow | medium | fast)."""
+
+    characteristic_MJ_m2: float | None
+    design_MJ_m2: float | None
+    combustion_factor: float = 0.8
+    area_factor: float | str = "auto"
+    occupancy_factor: float = 1.0
+    measures_factor: float = 1.0
+    growth: str = "medium"
 
 
 def area_factor(floor_area_m2: float, code=DEFAULTS) -> float:

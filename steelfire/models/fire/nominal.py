@@ -7,6 +7,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from steelfire.models.fire.design import DesignFire, FireSetup, convection
+
 
 def standard_fire(time_s):
     """Gas temperature [C] of the standard temperature-time curve (ISO 834) at ``time_s`` [s].
@@ -41,3 +43,10 @@ NOMINAL_CURVES = {
     "external": external_fire,
     "hydrocarbon": hydrocarbon_fire,
 }
+
+
+def design_fire(setup: FireSetup) -> DesignFire:
+    """The nominal curve ``setup.curve`` (standard, external or hydrocarbon) as a design fire: heating
+    only, alpha_c of EN 1991-1-2 3.2.1(3) / 3.2.2(2) / 3.2.3(2) unless the case sets its own."""
+    return DesignFire(curve=setup.curve, gas_temperature_C=NOMINAL_CURVES[setup.curve],
+                      alpha_c=convection(setup, f"alpha_c_{setup.curve}"), cools=False, nominal=True)

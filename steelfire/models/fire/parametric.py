@@ -12,7 +12,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from steelfire.codevalues import DEFAULTS
-from steelfire.errors import InputError
+from steelfire.errors import InputError, OutOfScopeError
+from steelfire.models.fire.compartment import SEVERITY_QUANTITIES
+from steelfire.models.fire.design import DesignFire, FireSetup, Quantity, convection
 
 #: Reference ratio O/b of eq (A.2b) that gives Gamma = 1: 0.04 / 1160.
 GAMMA_REFERENCE = 0.04 / 1160.0
@@ -178,3 +180,61 @@ def parametric_fire(opening_factor_m05: float, thermal_inertia: float, total_are
         gamma=gamma, gamma_lim=gamma_lim, k_factor=k, regime=regime, t_max_h=t_max_h,
         t_star_max_h=t_star_max, x_factor=x, peak_gas_temperature_C=theta_max, cooling_rate_C_h=rate,
         burnout_time_h=burnout_h)
+
+
+#: Band of (0.2e-3 q_t,d / O) / t_lim around 1 in which a warning names the regime jump.
+REGIME_BAND = 0.1
+
+#: What the outputs show of an Annex A fire: the compartment's severity values, then the fire's own.
+QUANTITIES = SEVERITY_QUANTITIES + (
+    Quantity("gamma", "time factor", "Gamma", "-", "EN 1991-1-2 eq (A.2a): (O/b)^2 / (0.04/1160)^2"),
+    Quantity("gamma_lim", "time factor, fuel-controlled (times k)", "Gamma_lim", "-",
+             "EN 1991-1-2 eq (A.8), (A.9)"),
+    Quantity("k_factor", "k factor", "k", "-", "EN 1991-1-2 eq (A.9)"),
+    Quantity("t_lim_min", "fire growth time (Table E.5 growth rate)", "t_lim", "min", "EN 1991-1-2 A.(10)"),
+    Quantity("regime", "fire regime", "", "", "EN 1991-1-2 A.(7), A.(10)"),
+    Quantity("t_max_min", "time of the peak gas temperature", "t_max", "min", "EN 1991-1-2 eq (A.7)", digits=2),
+    Quantity("x_factor", "cooling-phase factor", "x", "-", "EN 1991-1-2 eq (A.11)"),
+    Quantity("cooling_rate_C_h", "cooling rate (per hour of t*)", "", "C/h", "EN 1991-1-2 eq (A.11a)-(A.11c)"),
+    Quantity("burnout_time_min", "time the gas is back at 20 C", "", "min", "EN 1991-1-2 eq (A.11)", digits=2),
+)
+
+
+def design_fire(setup: FireSetup) -> DesignFire:
+    """The Annex A fire of the case's compartment (``setup.severity``) as a design fire: scope checked
+    (refused outside it unless ``allow_out_of_scope``, then every output is stamped), t_max and burnout
+    on the grid, alpha_c of a natural fire (EN 1991-1-2 3.3.1.1(3)), and the warnings of the annex's
+    pitfalls (regime boundary, fire not burnt out within the duration, cellulosic fire loads only)."""
+    sev, c, code = setup.severity, setup.compartment, setup.code
+    oos = []
+    for field, value, allowed in scope_violations(sev["opening_factor_m05"], sev["thermal_inertia"],
+                                                  sev["total_area_fire_load_MJ_m2"], c.floor_area_m2, c.height_m,
+                                                  c.roof_opening_area_m2, code):
+        if not setup.allow_out_of_scope:
+            raise OutOfScopeError(field, value, allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
+        oos.append(f"OUT OF SCOPE of EN 1991-1-2 Annex A: {field} = {value!r}; {allowed}")
+    pf = parametric_fire(sev["opening_factor_m05"], sev["thermal_inertia"], sev["total_area_fire_load_MJ_m2"],
+                         sev["t_lim_h"])
+    warnings = []
+    if abs(pf.regime_ratio - 1.0) <= REGIME_BAND:
+        warnings.append(
+            f"Annex A regime boundary: (0.2e-3 q_t,d / O) / t_lim = {pf.regime_ratio:.3f} is within 10 % of 1; "
+            f"the fire is {pf.regime}-controlled, and across the boundary the peak gas temperature jumps "
+            "(O_lim = O/2 there, so Gamma_lim = Gamma/4), as published. Check the sensitivity to q_t,d and O.")
+    if pf.burnout_time_s > setup.duration_min * 60.0:
+        warnings.append(
+            f"The parametric fire has not burnt out at duration_min = {setup.duration_min:g} min "
+            f"(gas back at 20 C at {pf.burnout_time_h * 60:.1f} min): the cooling phase is cut short.")
+    warnings.append("Annex A parametric fire: mainly cellulosic fire loads only (EN 1991-1-2 Annex A (2)).")
+    values = {k: sev[k] for k in (q.key for q in SEVERITY_QUANTITIES)}
+    values.update(gamma=pf.gamma, gamma_lim=pf.gamma_lim, k_factor=pf.k_factor, t_lim_min=pf.t_lim_h * 60.0,
+                  regime=pf.regime, t_max_min=pf.t_max_h * 60.0, x_factor=pf.x_factor,
+                  cooling_rate_C_h=pf.cooling_rate_C_h, burnout_time_min=pf.burnout_time_h * 60.0)
+    return DesignFire(curve="parametric", gas_temperature_C=pf.gas_temperature,
+                      alpha_c=convection(setup, "alpha_c_natural"), cools=True,
+                      key_times_s=(pf.t_max_s, pf.burnout_time_s), values=values, quantities=QUANTITIES,
+                      warnings=warnings, out_of_scope=oos)
+
+
+#: What the Annex A fire needs from the case.
+NEEDS = ("compartment", "fire_load")

@@ -2,16 +2,11 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
-from pathlib import Path
 
 import numpy as np
 
-from steelfire.inputs.csvrows import read_rows
-from steelfire.errors import InputError
-
-COLUMNS = ("time_min", "temperature_C")
+from steelfire.models.fire.design import DesignFire, FireSetup, Quantity, convection
 
 
 @dataclass(frozen=True)
@@ -27,41 +22,19 @@ class TabulatedFire:
         return np.interp(np.asarray(time_s, dtype=float), self.time_s, self.temperature_C)
 
 
-def read_curve_csv(path, field: str = "fire.file") -> TabulatedFire:
-    """Read a CSV with a header ``time_min,temperature_C``; times strictly increasing from 0 min.
+#: What the outputs show of a tabulated fire besides the gas curve.
+QUANTITIES = (Quantity("source_file", "table of the design fire", "", "", "case file, [fire] file"),)
 
-    Temperatures must lie between 0 and 1500 C. Errors name the file, the row and the column.
-    """
-    p = Path(path)
-    numbered = read_rows(p, field, "two columns time_min,temperature_C")
-    if not numbered:
-        raise InputError(field, str(path), "is empty; needs a header time_min,temperature_C and rows")
-    header = [c.strip() for c in numbered[0][1]]
-    if header[:2] != list(COLUMNS):
-        raise InputError(f"{p.name} header", ",".join(header), "must be time_min,temperature_C")
-    times, temps = [], []
-    for i, row in numbered[1:]:
-        if len(row) < 2:
-            raise InputError(f"{p.name} row {i}", ",".join(row), "needs two columns time_min,temperature_C")
-        vals = []
-        for col, cell in zip(COLUMNS, row[:2]):
-            try:
-                v = float(cell)
-            except ValueError:
-                raise InputError(f"{p.name} row {i} {col}", cell.strip(), "must be a number") from None
-            if not math.isfinite(v):
-                raise InputError(f"{p.name} row {i} {col}", cell.strip(), "must be a finite number")
-            vals.append(v)
-        t, theta = vals
-        if times and t <= times[-1]:
-            raise InputError(f"{p.name} row {i} time_min", t,
-                             f"times must increase strictly (previous row {times[-1]:g} min)")
-        if not times and t != 0.0:
-            raise InputError(f"{p.name} row {i} time_min", t, "the first row must be at 0 min")
-        if not (0.0 <= theta <= 1500.0):
-            raise InputError(f"{p.name} row {i} temperature_C", theta, "must be between 0 and 1500 C")
-        times.append(t)
-        temps.append(theta)
-    if len(times) < 2:
-        raise InputError(field, str(path), "needs at least two data rows")
-    return TabulatedFire(np.array(times) * 60.0, np.array(temps), p.name)
+
+def design_fire(setup: FireSetup) -> DesignFire:
+    """A tabulated gas curve (``setup.table``, a :class:`TabulatedFire`) as a design fire: every table row
+    on the grid, alpha_c of a natural fire (EN 1991-1-2 3.3.1.1(3)) unless the case sets its own; it
+    cools if any row is lower than the one before."""
+    tf = setup.table
+    return DesignFire(curve="table", gas_temperature_C=tf.gas_temperature, alpha_c=convection(setup, "alpha_c_natural"),
+                      cools=bool(np.any(np.diff(tf.temperature_C) < 0)), key_times_s=tuple(tf.time_s),
+                      values={"source_file": tf.source}, quantities=QUANTITIES)
+
+
+#: What a tabulated fire needs from the case.
+NEEDS = ("table",)

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 from html import escape as _esc
 
-from steelfire.outputs.files import format_number
+from steelfire.outputs.tables import format_number
 
 DASH = "\u2014"
 
@@ -337,45 +337,10 @@ def _fire_values(doc, c):
         cell = c.num(key) if kind == "num" else c.txt(key)
         rows.append([_lbl(label), _sym(sym), cell, _unit(unit), _ref(ref)])
 
-    add("area of vertical openings", "A<sub>v</sub> = Σ A<sub>i</sub>", "fire.vertical_opening_area_m2", U_M2,
-        "EN 1991-1-2 Annex A (3)")
-    add("equivalent (area-weighted) opening height", "h<sub>eq</sub> = Σ A<sub>i</sub>h<sub>i</sub> / A<sub>v</sub>",
-        "fire.opening_height_m", U_M, "EN 1991-1-2 Annex A (3)")
-    add("opening factor", "O = A<sub>v</sub> √h<sub>eq</sub> / A<sub>t</sub>", "fire.opening_factor_m05", U_M05,
-        "EN 1991-1-2 Annex A, legend of eq (A.2b)")
-    if comp.get("thermal_inertia") is None and comp.get("surfaces"):
-        b_ref = "EN 1991-1-2 Annex A (8)-(9): layered b of each surface, area-weighted over A_t - A_v, eq (A.9)"
-    else:
-        b_ref = "EN 1991-1-2 Annex A (3), b = √(ρcλ), given in the case"
-    add("thermal inertia of the enclosure", "b", "fire.thermal_inertia", U_B, b_ref)
-    if fl.get("characteristic_MJ_m2") is not None:
-        add("area factor used", "δ<sub>q1</sub>", "fire.area_factor", U_NONE,
-            "EN 1991-1-2 Table E.1 (log-linear in A_f between rows)" if isinstance(fl.get("area_factor"), str)
-            else "case input")
-        add("design fire load density, per floor area",
-            "q<sub>f,d</sub> = q<sub>f,k</sub> m δ<sub>q1</sub> δ<sub>q2</sub> δ<sub>n</sub>",
-            "fire.design_fire_load_MJ_m2", U_MJ, "EN 1991-1-2 Annex E, eq (E.1)")
-    else:
-        add("design fire load density, per floor area", "q<sub>f,d</sub>", "fire.design_fire_load_MJ_m2", U_MJ,
-            "case input (design_MJ_m2)")
-    add("design fire load density, per enclosure area", "q<sub>t,d</sub> = q<sub>f,d</sub> A<sub>f</sub> / A<sub>t</sub>",
-        "fire.total_area_fire_load_MJ_m2", U_MJ, "EN 1991-1-2 Annex A (4), legend of eq (A.4)")
-    add("time factor", "Γ = (O/b)² / (0.04/1160)²", "fire.gamma", U_NONE, "EN 1991-1-2 eq (A.2b)")
-    add("time of fire growth limit", "t<sub>lim</sub>", "fire.t_lim_min", U_MIN,
-        "EN 1991-1-2 Annex A (10), by fire growth rate (Table E.5)")
-    add("time of the maximum gas temperature", "t<sub>max</sub> = max(0.2·10⁻³ q<sub>t,d</sub>/O; t<sub>lim</sub>)",
-        "fire.t_max_min", U_MIN, "EN 1991-1-2 eq (A.4) (hours in the formula)")
-    add("regime (ventilation- or fuel-controlled)", "", "fire.regime", "",
-        "EN 1991-1-2 Annex A: fuel-controlled where t_max = t_lim, else ventilation-controlled", kind="txt")
-    add("time factor, fuel-controlled heating",
-        "Γ<sub>lim</sub> = (O<sub>lim</sub>/b)² / (0.04/1160)², "
-        "O<sub>lim</sub> = 0.1·10⁻³ q<sub>t,d</sub>/t<sub>lim</sub>",
-        "fire.gamma_lim", U_NONE, "EN 1991-1-2 eq (A.6); times k where eq (A.8) applies")
-    add("correction of Γ_lim (O > 0.04, q_t,d < 75, b < 1160)", "k", "fire.k_factor", U_NONE, "EN 1991-1-2 eq (A.8)")
-    add("cooling-phase factor", "x", "fire.x_factor", U_NONE, "EN 1991-1-2 Annex A (11), x = 1 or t_lim Γ / t*_max")
-    add("cooling rate (per hour of t*)", "", "fire.cooling_rate_C_h", "°C/h", "EN 1991-1-2 eq (A.11a)-(A.11c)")
-    add("end of the cooling phase (gas back at 20 °C)", "", "fire.burnout_time_min", U_MIN, "EN 1991-1-2 eq (A.11)")
-    add("tabulated gas temperatures from", "", "fire.source_file", "", "case [fire] file", kind="txt")
+    for r in doc.get("fire_rows", []):  # the fire model's own rows, in its order
+        key = "fire." + r["key"]
+        kind = "txt" if isinstance(f.get(r["key"]), str) else "num"
+        add(r["label"], _esc(r["symbol"]), key, r["unit"], r["clause"], kind=kind)
     add("peak gas temperature", "θ<sub>g,max</sub>", "fire.peak_gas_temperature_C", U_C,
         "maximum on the time grid (t_max and t_lim are put on the grid)")
     add("time of the peak gas temperature", "", "fire.time_of_peak_gas_min", U_MIN, "")
@@ -738,7 +703,7 @@ footer { margin-top: 8mm; border-top: 0.5pt solid var(--rule); padding-top: 1.5m
 def render_report(doc, figures) -> str:
     """The report page (a str of HTML) from the result document and the rendered figures."""
     from steelfire.outputs.report import plots
-    from steelfire.outputs.files import sizing_columns
+    from steelfire.outputs.tables import sizing_columns
 
     c = _Cells(doc)
     figs = {f.name: f for f in figures}

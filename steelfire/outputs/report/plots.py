@@ -174,7 +174,7 @@ def _num(v):
 
 
 def _fmt(v) -> str:
-    from steelfire.outputs.files import format_number
+    from steelfire.outputs.tables import format_number
 
     return format_number(v)
 
