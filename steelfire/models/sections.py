@@ -64,6 +64,9 @@ __all__ = [
     "box_section_factor_per_m",
     "shadow_factor",
     "shadow_ratio",
+    "PlatePart",
+    "SectionProperties",
+    "section_properties",
 ]
 
 EXPOSURES = ("4-sided", "3-sided")
@@ -547,6 +550,261 @@ def shadow_factor(section: Section, exposure: str, nominal_fire: bool, code=None
     from steelfire.codevalues import DEFAULTS
 
     return (code if code is not None else DEFAULTS)["shadow_factor_i_nominal"] * ratio
+
+
+# --------------------------------------------------------------------------------------------
+# section properties (resistance, classification)
+# --------------------------------------------------------------------------------------------
+
+# The region between two straight legs of length r meeting at a right angle and the quarter arc of
+# radius r that joins their ends (a root fillet of an I section, or the corner lost to a rounded
+# corner of an RHS): square r x r minus a quarter disc. Exact values, by integration:
+#   area                          (1 - pi/4) r^2                          = 0.2146 r^2
+#   centroid from each leg        (10 - 3 pi) / (12 - 3 pi) r             = 0.2234 r
+#   second moment about a leg     (1 - 5 pi/16) r^4                       = 0.01825 r^4
+#   own second moment (centroid)  (1 - 5 pi/16) r^4 - area * centroid^2   = 0.007545 r^4
+# The usual handbook formulas for rolled I sections carry the same numbers (0.2146 r^2, 0.4468 r =
+# 2 * 0.2234 r, 0.03 r^4 ~ 4 * 0.007545 r^4).
+_SPANDREL_AREA = 1.0 - math.pi / 4.0
+_SPANDREL_CENTROID = (10.0 - 3.0 * math.pi) / (12.0 - 3.0 * math.pi)
+_SPANDREL_OWN_I = (1.0 - 5.0 * math.pi / 16.0) - _SPANDREL_AREA * _SPANDREL_CENTROID ** 2
+
+
+def _spandrels(r: float, lever: float) -> tuple[float, float, float]:
+    """Four spandrels of radius r whose centroids lie at ``lever`` from an axis.
+
+    Returns (area, second moment about the axis, first moment of area about it taken positive on
+    both sides, i.e. the four spandrels' share of a plastic modulus).
+    """
+    a = _SPANDREL_AREA * r * r
+    return 4.0 * a, 4.0 * (_SPANDREL_OWN_I * r ** 4 + a * lever ** 2), 4.0 * a * lever
+
+
+@dataclass(frozen=True)
+class PlatePart:
+    """One compression part of a cross-section for EN 1993-1-1 Table 5.2.
+
+    Parameters
+    ----------
+    name : str
+        ``"flange"``, ``"web"`` or ``"wall"`` (CHS).
+    support : str
+        ``"outstand"`` (supported on one edge: flange of an I section), ``"internal"`` (supported on
+        both edges: web of an I section, walls of an RHS) or ``"tube"`` (CHS; c is then the
+        diameter d).
+    c_mm : float
+        Width c [mm] of the flat part as Table 5.2 defines it (d for a CHS).
+    t_mm : float
+        Its thickness [mm].
+    count : int
+        How many such parts the section has (2 webs of an RHS, 4 flange outstands of an I section).
+    """
+
+    name: str
+    support: str
+    c_mm: float
+    t_mm: float
+    count: int = 1
+
+    @property
+    def slenderness(self) -> float:
+        """c / t [-]."""
+        return self.c_mm / self.t_mm
+
+
+@dataclass(frozen=True)
+class SectionProperties:
+    """Geometric properties of a cross-section about its principal axes, millimetre units.
+
+    The y-y axis is parallel to the flanges of an I section and to the faces of width b of an RHS
+    (bending about y-y stresses the depth h); z-z is the other principal axis. Root fillets and
+    rounded corners are included in every property.
+
+    Attributes
+    ----------
+    shape : str
+        ``"I"``, ``"RHS"`` or ``"CHS"``.
+    area_mm2 : float
+        A [mm2].
+    I_y_mm4, I_z_mm4 : float
+        Second moments of area [mm4].
+    i_y_mm, i_z_mm : float
+        Radii of gyration sqrt(I / A) [mm].
+    W_el_y_mm3, W_el_z_mm3 : float
+        Elastic section moduli I / (extreme fibre distance) [mm3].
+    W_pl_y_mm3, W_pl_z_mm3 : float
+        Plastic section moduli (twice the first moment of the half section) [mm3].
+    I_t_mm4 : float
+        St Venant torsion constant [mm4].
+    I_w_mm6 : float
+        Warping constant [mm6]; 0 for hollow sections (their warping stiffness is negligible).
+    governing_thickness_mm : float
+        Thickest plate [mm], which selects the steel grade's thickness band.
+    parts : tuple of PlatePart
+        The parts that Table 5.2 classifies: (flange, web) of an I section or an RHS, (wall,) of a
+        CHS.
+    """
+
+    shape: str
+    area_mm2: float
+    I_y_mm4: float
+    I_z_mm4: float
+    i_y_mm: float
+    i_z_mm: float
+    W_el_y_mm3: float
+    W_el_z_mm3: float
+    W_pl_y_mm3: float
+    W_pl_z_mm3: float
+    I_t_mm4: float
+    I_w_mm6: float
+    governing_thickness_mm: float
+    parts: tuple
+
+    def part(self, name: str) -> PlatePart:
+        """The part called ``name`` (``"flange"``, ``"web"``, ``"wall"``)."""
+        for p in self.parts:
+            if p.name == name:
+                return p
+        raise KeyError(name)
+
+
+def _i_section_properties(s: ISection) -> SectionProperties:
+    h, b, tw, tf, r = s.h_mm, s.b_mm, s.tw_mm, s.tf_mm, s.r_mm
+    hw = h - 2.0 * tf                     # web depth between the flanges
+    e = _SPANDREL_CENTROID * r            # fillet centroid from the web face and the flange face
+    # fillets: centroids at h/2 - tf - e from y-y, at tw/2 + e from z-z
+    a_f, i_fy, s_fy = _spandrels(r, hw / 2.0 - e)
+    _, i_fz, s_fz = _spandrels(r, tw / 2.0 + e)
+    area = 2.0 * b * tf + hw * tw + a_f
+    i_y = (b * h ** 3 - (b - tw) * hw ** 3) / 12.0 + i_fy
+    i_z = (2.0 * tf * b ** 3 + hw * tw ** 3) / 12.0 + i_fz
+    w_pl_y = b * tf * (h - tf) + tw * hw ** 2 / 4.0 + s_fy
+    w_pl_z = tf * b ** 2 / 2.0 + hw * tw ** 2 / 4.0 + s_fz
+    # St Venant torsion of a rolled I section: the flanges and the web as thin rectangles (the
+    # flanges with the 0.63 tf end correction) plus the two web-flange junctions with their fillets
+    # (the usual handbook formula):
+    #   I_t = 2/3 (b - 0.63 tf) tf^3 + 1/3 (h - 2 tf) tw^3 + 2 alpha1 D1^4,
+    #   alpha1 = (tw / tf)(0.145 + 0.1 r / tf),
+    #   D1 = ((tf + r)^2 + (r + tw/2)^2 - r^2) / (2 r + tf)   (diameter of the largest inscribed circle).
+    # A welded section (r = 0) keeps the junction term with r = 0.
+    alpha1 = (tw / tf) * (0.145 + 0.1 * r / tf)
+    d1 = ((tf + r) ** 2 + (r + tw / 2.0) ** 2 - r ** 2) / (2.0 * r + tf)
+    i_t = 2.0 / 3.0 * (b - 0.63 * tf) * tf ** 3 + hw * tw ** 3 / 3.0 + 2.0 * alpha1 * d1 ** 4
+    # warping of a doubly symmetric I section: the flanges' I_z times (distance between flange
+    # centres)^2 / 2 each, I_w = tf b^3 (h - tf)^2 / 24 (the web and the fillets neglected).
+    i_w = tf * b ** 3 * (h - tf) ** 2 / 24.0
+    # Table 5.2 widths: rolled, c of the web between the fillets and of the flange outstand from the
+    # fillet toe; welded, from the weld toe (leg length sqrt(2) a of an equal-leg fillet weld).
+    leg = r if s.fabrication == "rolled" else math.sqrt(2.0) * s.weld_throat_mm
+    flange = PlatePart("flange", "outstand", (b - tw - 2.0 * leg) / 2.0, tf, count=4)
+    web = PlatePart("web", "internal", hw - 2.0 * leg, tw, count=1)
+    return SectionProperties(
+        "I", area, i_y, i_z, math.sqrt(i_y / area), math.sqrt(i_z / area),
+        2.0 * i_y / h, 2.0 * i_z / b, w_pl_y, w_pl_z, i_t, i_w, max(tf, tw), (flange, web))
+
+
+def _rhs_properties(s: RectangularHollowSection) -> SectionProperties:
+    h, b, t, ro, ri = s.h_mm, s.b_mm, s.t_mm, s.outer_radius_mm, s.inner_radius_mm
+    hi, bi = h - 2.0 * t, b - 2.0 * t
+    eo, ei = _SPANDREL_CENTROID * ro, _SPANDREL_CENTROID * ri
+
+    def solid(depth, width, r, e):
+        """A, I and W_pl of a rectangle depth x width with four rounded corners, about the axis
+        parallel to ``width``."""
+        a_c, i_c, s_c = _spandrels(r, depth / 2.0 - e)
+        return (depth * width - a_c, width * depth ** 3 / 12.0 - i_c,
+                width * depth ** 2 / 4.0 - s_c)
+
+    a_o, iy_o, wy_o = solid(h, b, ro, eo)
+    a_i, iy_i, wy_i = solid(hi, bi, ri, ei)
+    _, iz_o, wz_o = solid(b, h, ro, eo)
+    _, iz_i, wz_i = solid(bi, hi, ri, ei)
+    area = a_o - a_i
+    i_y, i_z = iy_o - iy_i, iz_o - iz_i
+    # St Venant torsion of a closed thin-walled section with rounded corners (the usual handbook
+    # formula for hollow sections): R_c = (r_o + r_i)/2 the mean corner radius,
+    #   h_p = 2 ((b - t) + (h - t)) - 2 R_c (4 - pi)   mid-line perimeter,
+    #   A_h = (b - t)(h - t) - R_c^2 (4 - pi)           area inside the mid-line,
+    #   K = 2 A_h t / h_p,   I_t = t^3 h_p / 3 + 2 K A_h.
+    rc = (ro + ri) / 2.0
+    h_p = 2.0 * ((b - t) + (h - t)) - 2.0 * rc * (4.0 - math.pi)
+    a_h = (b - t) * (h - t) - rc ** 2 * (4.0 - math.pi)
+    k = 2.0 * a_h * t / h_p
+    i_t = t ** 3 * h_p / 3.0 + 2.0 * k * a_h
+    # Table 5.2 widths: the flat part, c = h - 3 t as Table 5.2 allows for RHS (it is the flat width
+    # when r_o = 1.5 t), or the flat width h - 2 r_o when the corners are sharper than that.
+    cut = 2.0 * min(ro, 1.5 * t)
+    flange = PlatePart("flange", "internal", b - cut, t, count=2)   # faces of width b
+    web = PlatePart("web", "internal", h - cut, t, count=2)         # faces of depth h
+    return SectionProperties(
+        "RHS", area, i_y, i_z, math.sqrt(i_y / area), math.sqrt(i_z / area),
+        2.0 * i_y / h, 2.0 * i_z / b, wy_o - wy_i, wz_o - wz_i, i_t, 0.0, t, (flange, web))
+
+
+def _chs_properties(s: CircularHollowSection) -> SectionProperties:
+    d, t = s.d_mm, s.t_mm
+    di = d - 2.0 * t
+    area = s.area_mm2
+    i = math.pi / 64.0 * (d ** 4 - di ** 4)
+    w_el = 2.0 * i / d
+    w_pl = (d ** 3 - di ** 3) / 6.0
+    i_t = 2.0 * i        # polar second moment of a circular tube
+    wall = PlatePart("wall", "tube", d, t, count=1)
+    return SectionProperties("CHS", area, i, i, math.sqrt(i / area), math.sqrt(i / area),
+                             w_el, w_el, w_pl, w_pl, i_t, 0.0, t, (wall,))
+
+
+@lru_cache(maxsize=4096)
+def _properties_cached(section: Section) -> SectionProperties:
+    if isinstance(section, ISection):
+        return _i_section_properties(section)
+    if isinstance(section, RectangularHollowSection):
+        return _rhs_properties(section)
+    return _chs_properties(section)
+
+
+def section_properties(section: Section) -> SectionProperties:
+    """Area, second moments, radii of gyration, elastic and plastic moduli, torsion and warping
+    constants, and the Table 5.2 part widths of a section [mm units].
+
+    Formulas (dimensions as in the shape classes; fillets and corners by the exact spandrel
+    integrals, which the handbook coefficients 0.2146, 0.2234, 0.03 round):
+
+    * I section: A = 2 b tf + (h - 2tf) tw + (4 - pi) r^2;
+      I_y = [b h^3 - (b - tw)(h - 2tf)^3] / 12 + 0.03 r^4 + 0.2146 r^2 (h - 2tf - 0.4468 r)^2;
+      I_z = [2 tf b^3 + (h - 2tf) tw^3] / 12 + 0.03 r^4 + 0.2146 r^2 (tw + 0.4468 r)^2;
+      W_pl,y = b tf (h - tf) + tw (h - 2tf)^2 / 4 + (4 - pi)/2 r^2 (h - 2tf) + (3 pi - 10)/3 r^3;
+      W_pl,z = tf b^2 / 2 + (h - 2tf) tw^2 / 4 + (4 - pi)/2 r^2 tw + (10 - 3 pi)/3 r^3;
+      I_t = 2/3 (b - 0.63 tf) tf^3 + 1/3 (h - 2tf) tw^3 + 2 (tw/tf)(0.145 + 0.1 r/tf) D1^4 with
+      D1 = ((tf + r)^2 + (r + tw/2)^2 - r^2) / (2r + tf); I_w = tf b^3 (h - tf)^2 / 24.
+    * RHS: outer rectangle with corners r_o minus the inner one with corners r_i;
+      I_t = t^3 h_p / 3 + 2 K A_h (closed thin-walled section, mean corner radius); I_w = 0.
+    * CHS: A = pi t (d - t), I = pi (d^4 - d_i^4) / 64, W_pl = (d^3 - d_i^3) / 6, I_t = 2 I, I_w = 0.
+
+    Table 5.2 widths c: I-section web h - 2tf - 2r and flange outstand (b - tw - 2r) / 2 (welded: the
+    weld leg sqrt(2) a instead of r); RHS walls h - 3t and b - 3t (the flat width h - 2 r_o when
+    r_o < 1.5 t); CHS d.
+
+    Parameters
+    ----------
+    section : ISection, RectangularHollowSection or CircularHollowSection
+
+    Returns
+    -------
+    SectionProperties
+
+    Examples
+    --------
+    IPE 300 (handbook: A = 53.81 cm2, I_y = 8356 cm4, W_pl,y = 628.4 cm3, I_t = 20.12 cm4):
+
+    >>> p = section_properties(catalogue_section("IPE 300"))
+    >>> round(p.area_mm2 / 1e2, 2), round(p.I_y_mm4 / 1e4), round(p.W_pl_y_mm3 / 1e3, 1)
+    (53.81, 8356, 628.4)
+    >>> round(p.I_t_mm4 / 1e4, 2)
+    20.12
+    """
+    _check_section(section)
+    return _properties_cached(section)
 
 
 # --------------------------------------------------------------------------------------------
