@@ -44,7 +44,8 @@ EMISSIVITY_STEEL = 0.7
 
 #: Newton's method stops when every step is below this [K] (well under the kernels' rounding).
 TEMPERATURE_TOLERANCE_K = 1e-9
-#: Newton iterations allowed; from the upper start below it needs about 5-10 (test_surface).
+#: Newton iterations allowed; from the upper start below it took 3-5 for 1 W/m2 to 300 kW/m2 with
+#: alpha_c = 35, eps = 0.7 (measured once), 1 with alpha_c = 0 (the start is then the root).
 MAX_ITERATIONS = 60
 
 
