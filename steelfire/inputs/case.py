@@ -45,7 +45,9 @@ INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
 
 # The keys each table may hold. A key outside its list is refused before anything else is read, so that
 # a typo (``thicknes_mm``) is reported as itself, not as the required key it hides.
-TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file")
+TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file",
+            "record")
+RECORD_KEYS = ("project", "job_number", "revision", "prepared_by", "checked_by", "date", "notes")
 FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient")
 ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope")
 COMPARTMENT_KEYS = ("floor_area_m2", "height_m", "boundary_area_m2", "thermal_inertia", "roof_opening_area_m2",
@@ -117,6 +119,7 @@ class Case:
     code_overrides: dict = field(default_factory=dict)
     inputs: tuple = ()
     member_places: MemberPlaces | None = field(default=None, compare=False, repr=False)
+    record: dict = field(default_factory=dict)
 
     def label(self, i: int) -> str:
         """The error-message name of member ``i``."""
@@ -154,6 +157,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     base = Path(base_dir)
     fire = _read_fire(TableReader(top.raw("fire"), "fire", keys=FIRE_KEYS) if top.has("fire") else None, base)
     analysis = _read_analysis(top.raw("analysis", {}))
+    record = _read_record(top.raw("record", {}))
     compartment = _read_compartment(top.raw("compartment")) if top.has("compartment") else None
     fire_load = _read_fire_load(top.raw("fire_load")) if top.has("fire_load") else None
     for need in fire_models.needs(fire.curve):
@@ -200,7 +204,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
                 code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs),
-                member_places=places)
+                member_places=places, record=record)
 
 
 def _refuse_repeated_name(places, members):
@@ -297,6 +301,15 @@ def _read_fire(t: TableReader | None, base_dir: Path) -> FireSpec:
         raise InputError("fire.file", t.raw("file"), 'is only used with curve = "table"')
     t.done()
     return FireSpec(curve=curve, duration_min=duration, file=file, convection_coefficient=hc, table=table)
+
+
+def _read_record(data) -> dict:
+    """The ``[record]`` table: who made the calculation and for which project (free text, for the title
+    block of the report)."""
+    t = TableReader(data, "record", keys=RECORD_KEYS)
+    out = {k: t.string(k, required=False) for k in RECORD_KEYS}
+    t.done()
+    return {k: v for k, v in out.items() if v is not None}
 
 
 def _read_analysis(data) -> AnalysisSettings:

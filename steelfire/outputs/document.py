@@ -221,6 +221,7 @@ def full(result, case=None, case_path=None, command: str = "check", now=None) ->
         stamp["fire_table_file"] = Path(case.fire.file).name
         stamp["fire_table_sha256"] = file_sha256(case.fire.file)
     doc["run"] = stamp
+    doc["record"] = dict(case.record) if case is not None else {}
     doc["inputs"] = case_inputs(case) if case is not None else None
     doc["code_value_sources"] = {k: {"unit": DEFINITIONS[k].unit, "clause": DEFINITIONS[k].clause}
                                  for k in doc["code_values"] if k in DEFINITIONS}
