@@ -68,6 +68,19 @@ _DEFS = {
     "section_factor_min_bare_per_m": _v(10, "1/m", "EN 1993-1-2 4.2.5.1(1), Am/V not below 10 m-1", 0, 1000),
     "max_time_step_bare_s": _v(5, "s", "EN 1993-1-2 4.2.5.1(4), time step not more than 5 s", 0.01, 60),
     "max_time_step_protected_s": _v(30, "s", "EN 1993-1-2 4.2.5.2(3), time step not more than 30 s", 0.01, 300),
+    # EN 1993-1-2 4.2.2, 4.2.3: resistance in fire (steelfire.models.resistance, classification, grades)
+    "gamma_M_fi": _v(1.0, "-", "EN 1993-1-2 2.3(1), partial factor for the fire situation (recommended)", 1, 2),
+    "class4_critical_temperature_C": _v(350, "C", "EN 1993-1-2 4.2.3.6(2), critical temperature of class 4 "
+                                        "sections (recommended)", 100, 700),
+    "fire_imperfection_coefficient": _v(0.65, "-", "EN 1993-1-2 4.2.3.2(2) eq (4.7), alpha = 0.65 sqrt(235 / f_y)",
+                                        0.1, 2),
+    "fire_epsilon_coefficient": _v(0.85, "-", "EN 1993-1-2 4.2.2(1) eq (4.2), epsilon = 0.85 sqrt(235 / f_y)",
+                                   0.5, 1),
+    "steel_elastic_modulus_MPa": _v(210000, "MPa", "EN 1993-1-1 3.2.6(1), E", 150000, 250000),
+    "steel_shear_modulus_MPa": _v(81000, "MPa", "EN 1993-1-1 3.2.6(1), G", 50000, 100000),
+    "equivalent_moment_factor_uniform": _v(1.1, "-", "EN 1993-1-2 Figure 4.2, beta_M,psi = 1.8 - 0.7 psi at "
+                                           "psi = 1 (uniform moment)", 1.1, 2.5),
+    "combined_slenderness_y_max": _v(1.1, "-", "EN 1993-1-2 4.2.3.5(1), mu_y for lambda_y,20C <= 1.1", 0, 10),
     # EN 1991-1-2 Annex F (informative): time equivalence
     "annex_f_kb_high_inertia": _v(0.04, "min m2/MJ", "EN 1991-1-2 Table F.2, b > 2500", 0.001, 1),
     "annex_f_kb_medium_inertia": _v(0.055, "min m2/MJ", "EN 1991-1-2 Table F.2, 720 <= b <= 2500", 0.001, 1),

@@ -43,7 +43,8 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     t = fires.time_grid(case.fire.duration_min * 60.0, case.analysis.time_step_s, fire.key_times_s)
     g = np.asarray(fire.gas_temperature_C(t), dtype=float)
     i_peak = int(np.argmax(g))
-    crit, source = verdicts.critical_temperatures(members)
+    crit, source, resistance = verdicts.critical_temperatures(members, code, case.analysis.allow_out_of_scope,
+                                                              case.label)
 
     cols = thermal.MemberColumns(case)
     ts, gs = fires.standard_fire(case, case.analysis.standard_horizon_min)
@@ -71,6 +72,7 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     warnings += verdicts.member_warnings(case, fire, cols, peak, design.last_increment_C, rising)
 
     nominal = fire.nominal
+    details = member_details(case, cols, peak, nominal)
     table = MemberTable(
         {"name": [m.name for m in members], "kind": [m.kind for m in members],
          "section_factor_per_m": cols.section_factor_per_m, "protection": [m.protection for m in members],
@@ -83,7 +85,7 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
                            for m, k in zip(members, cols.shadow_factor(nominal))],
          "utilisation": [m.utilisation for m in members],
          "section": [m.section for m in members], "exposure": [m.exposure for m in members],
-         "encasement": [m.encasement for m in members]},
+         "encasement": [m.encasement for m in members], "resistance": resistance, "details": details},
         histories=design.history_C if histories else None, equivalence=equiv)
     fr = FireResult(curve=case.fire.curve, duration_min=case.fire.duration_min, convection_coefficient=fire.alpha_c,
                     time_s=t, gas_temperature_C=g, peak_gas_temperature_C=float(g[i_peak]),
@@ -94,3 +96,41 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
                           warnings=list(fire.out_of_scope) + warnings, out_of_scope=list(fire.out_of_scope),
                           time_step_s=case.analysis.time_step_s,
                           standard_horizon_min=case.analysis.standard_horizon_min, cautions=CAUTIONS)
+
+
+def member_details(case, cols, peak_C, nominal_fire):
+    """Per member, the intermediate values a checker traces: for protected members phi of EN 1993-1-2
+    eq (4.27) and lambda_p at the peak steel temperature, the moisture delay t_v; for bare members k_sh
+    with the formula it came from; c_a at the peak (eq (3.2)); the loader's notes."""
+    from steelfire.models import steel
+    from steelfire.models.protection import moisture_delay_s
+
+    code = case.code
+    members = case.members
+    c_a = steel.specific_heat(np.minimum(peak_C, 1200.0))
+    m_rho, m_cp, m_moist, m_lam20, m_T, m_V, m_N = cols.materials
+    k_sh = cols.shadow_factor(nominal_fire)
+    out = []
+    for i, m in enumerate(members):
+        d = {"specific_heat_at_peak_J_kgK": float(c_a[i])}
+        if m.protected:
+            r = cols.material_row[i]
+            d_p = m.thickness_mm * 1e-3
+            d["phi"] = float(m_cp[r] * m_rho[r] * d_p * m.section_factor_per_m / (c_a[i] * code["steel_density_kg_m3"]))
+            n_k = m_N[r]
+            d["conductivity_W_mK"] = float(np.interp(min(peak_C[i], 1200.0), m_T[r, :n_k], m_V[r, :n_k]))
+            d["moisture_delay_min"] = float(moisture_delay_s(m_moist[r], m_rho[r], d_p, m_lam20[r]) / 60.0)
+        else:
+            d["shadow_factor"] = float(k_sh[i])
+            if m.i_section and nominal_fire:
+                formula = (f"eq (4.26a): k_sh = {code['shadow_factor_i_nominal']:g} [Am/V]b/[Am/V] = "
+                           f"{code['shadow_factor_i_nominal']:g} x {m.shadow_ratio:.4g}")
+            elif m.shadow_factor is not None or m.section is not None:
+                formula = f"eq (4.26b): k_sh = [Am/V]b/[Am/V] = {m.shadow_ratio:.4g}"
+            else:
+                formula = "k_sh = 1 (no shadow effect taken; conservative)"
+            d["shadow_factor_formula"] = formula + (" (ratio given)" if m.shadow_factor is not None else "")
+        if m.notes:
+            d["notes"] = list(m.notes)
+        out.append(d)
+    return out

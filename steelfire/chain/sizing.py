@@ -262,7 +262,7 @@ def size_members(case):
         standard, design = _sizing_fires(case)
         sub = [members[i] for i in prot]
         mats = [case.materials[m.protection] for m in sub]
-        crit = verdicts.critical_temperatures(sub)[0]
+        crit = verdicts.critical_temperatures(sub, code, case.analysis.allow_out_of_scope)[0]
         req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
         p = Problem(cols, prot, crit, req, standard, design, code)
         supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]

@@ -24,23 +24,52 @@ def names_text(names, most=8):
     return ", ".join(names[:most]) + f" and {len(names) - most} more"
 
 
-def critical_temperatures(members):
-    """(theta_a,cr [C] array, source per member): given, or EN 1993-1-2 eq (4.22) from the degree of
-    utilisation (evaluated once per distinct utilisation)."""
+def critical_temperatures(members, code=None, allow_out_of_scope=False, labels=None):
+    """Critical temperatures theta_a,cr [C] of ``members``: (array, source per member, resistance entry per
+    member or None).
+
+    Given by the user (``critical_temperature_C``, source "given"); EN 1993-1-2 eq (4.22) from the degree of
+    utilisation (members without instability); or from the member's resistance in fire, EN 1993-1-2 4.2.3
+    (:func:`steelfire.models.resistance.critical_temperatures`, all such members at once). A member that
+    cannot carry its design effect even at 20 C (mu0 >= 1) takes 20 C: it fails whatever the fire.
+    """
+    from steelfire.codevalues import DEFAULTS
+
+    code = DEFAULTS if code is None else code
+    n = len(members)
+    crit = np.empty(n)
+    source = [None] * n
+    resistance = [None] * n
     by_mu = {}
-    crit = np.empty(len(members))
-    source = []
+    design_idx = []
     for i, m in enumerate(members):
         if m.critical_temperature_C is not None:
-            crit[i] = m.critical_temperature_C
-            source.append("given")
+            crit[i], source[i] = m.critical_temperature_C, "given"
+        elif m.design is not None:
+            design_idx.append(i)
         else:
             mu = m.utilisation
             if mu not in by_mu:
                 by_mu[mu] = steel.critical_temperature(mu)
-            crit[i] = by_mu[mu]
-            source.append("EN 1993-1-2 eq (4.22)")
-    return crit, source
+            crit[i], source[i] = by_mu[mu], "EN 1993-1-2 eq (4.22)"
+    if design_idx:
+        from steelfire.models import resistance as res
+
+        sub = [members[i] for i in design_idx]
+        rows = [{**m.design, "section": m.geometry} for m in sub]
+        where = [labels(i) if labels is not None else f"member[{i + 1}] ({members[i].name})" for i in design_idx]
+        r = res.critical_temperatures(res.MemberDesign.from_members(rows, where), code,
+                                      allow_out_of_scope=allow_out_of_scope)
+        for j, i in enumerate(design_idx):
+            entry = r.member(j)
+            resistance[i] = entry
+            if entry["fails_at_20C"]:
+                crit[i] = 20.0
+                source[i] = (f"fails at 20 C: mu0 = {entry['utilisation']:.3g} >= 1 by {entry['clause']}")
+            else:
+                crit[i] = entry["critical_temperature_C"]
+                source[i] = entry["clause"]
+    return crit, source, resistance
 
 
 def equivalence(case, fire, severity, members, equal_time_s, critical_time_s, warnings):
@@ -179,13 +208,10 @@ def member_warnings(case, fire, cols, peak, last, rising):
         out.append(f"Shadow factor for {names_text(mixed)}: eq (4.26b) in the design fire, eq (4.26a) (0.9 times) "
                    "under the standard fire (EN 1993-1-2 4.2.5.1(2)); the standard-fire times, and the "
                    "equal-temperature equivalence, carry that difference.")
-    unstable = [m.name for m in members if m.utilisation is not None and (
-        m.kind in ("column", "brace", "other") or (m.kind == "beam" and m.laterally_restrained is not True))]
-    if unstable:
-        out.append(
-            "EN 1993-1-2 eq (4.22) holds for members without instability (tension members, laterally restrained "
-            f"beams) with class 1-3 sections; it is used here for {names_text(unstable)}: check buckling or lateral-"
-            "torsional buckling by EN 1993-1-2 4.2.3 (class 4 sections: 350 C, 4.2.3.6).")
+    given = [m.name for m in members if m.critical_temperature_C is not None and m.unstable]
+    if given:
+        out.append(f"Critical temperature given by the user (not checked by steelfire) for {names_text(given)}: "
+                   "it must come from the member's buckling resistance (EN 1993-1-2 4.2.3).")
     if fire.cools:
         heating = [m.name for m, d in zip(members, last) if d > 1e-9]
         if heating:

@@ -22,7 +22,34 @@ KINDS = ("beam", "column", "tension", "brace", "other")
 #: Every key a member row may give (a [[member]] table or a schedule column); the contract of the case file.
 MEMBER_KEYS = ("name", "kind", "laterally_restrained", "section_factor_per_m", "utilisation",
                "critical_temperature_C", "protection", "thickness_mm", "required_minutes", "shadow_factor",
-               "section", "exposure", "encasement")
+               "section", "exposure", "encasement", "steel_grade", "axial_force_kN", "moment_y_kNm",
+               "buckling_length_m", "buckling_length_y_m", "buckling_length_z_m", "lateral_restraint_length_m",
+               "moment_factor_C1", "adaptation_factor_k1", "adaptation_factor_k2", "equivalent_moment_factor_y",
+               "equivalent_moment_factor_LT")
+
+#: The keys of a member checked by its resistance (EN 1993-1-2 4.2.3), key -> (unit, lo, hi, lo_open).
+DESIGN_NUMBERS = {
+    "axial_force_kN": ("kN", -1e6, 1e6, False),
+    "moment_y_kNm": ("kNm", 0.0, 1e5, False),
+    "buckling_length_m": ("m", 0.0, 200.0, True),
+    "buckling_length_y_m": ("m", 0.0, 200.0, True),
+    "buckling_length_z_m": ("m", 0.0, 200.0, True),
+    "lateral_restraint_length_m": ("m", 0.0, 200.0, True),
+    "moment_factor_C1": ("-", 1.0, 3.0, False),
+    "adaptation_factor_k1": ("-", 0.0, 1.0, True),
+    "adaptation_factor_k2": ("-", 0.0, 1.0, True),
+    "equivalent_moment_factor_y": ("-", 1.1, 2.5, False),
+    "equivalent_moment_factor_LT": ("-", 1.1, 2.5, False),
+}
+DESIGN_KEYS = ("steel_grade",) + tuple(DESIGN_NUMBERS)
+
+#: User section geometry (a [[member]] ``section`` table): shape -> (keys, constructor of steelfire.models.sections).
+SECTION_SHAPES = {
+    "rolled-I": ("h_mm", "b_mm", "tw_mm", "tf_mm", "r_mm"),
+    "welded-I": ("h_mm", "b_mm", "tw_mm", "tf_mm"),
+    "RHS": ("h_mm", "b_mm", "t_mm"),
+    "CHS": ("d_mm", "t_mm"),
+}
 
 #: Key -> (unit, lo, hi) of the member numbers, each lo < value <= hi (all bounds finite).
 MEMBER_NUMBERS = {
@@ -74,6 +101,18 @@ class Member:
     shadow_ratio: float = 1.0
     i_section: bool = False
     notes: tuple = field(default=(), compare=False)
+    design: dict | None = None
+    geometry: object = field(default=None, compare=False, repr=False)
+
+    @property
+    def by_resistance(self) -> bool:
+        """Whether the critical temperature comes from the member's resistance (EN 1993-1-2 4.2.3)."""
+        return self.design is not None
+
+    @property
+    def unstable(self) -> bool:
+        """A member that can buckle: a column, a brace, an 'other' or a beam not held laterally."""
+        return self.kind in ("column", "brace", "other") or (self.kind == "beam" and self.laterally_restrained is not True)
 
     @property
     def protected(self) -> bool:
@@ -185,10 +224,10 @@ class _Sections:
         self.cache = {}
 
     def get(self, name, exposure, encasement):
-        key = (name, exposure, encasement)
+        key = (_hashable(name), exposure, encasement)
         if key not in self.cache:
             try:
-                geom = sec.catalogue_section(name)
+                geom = sec.catalogue_section(name) if isinstance(name, str) else user_section(name)
             except InputError as exc:
                 self.cache[key] = ("section", exc)
                 return self.cache[key]
@@ -200,6 +239,39 @@ class _Sections:
                 return self.cache[key]
             self.cache[key] = (geom, am_v, ratio)
         return self.cache[key]
+
+
+def _hashable(v):
+    return tuple(sorted(v.items())) if isinstance(v, dict) else v
+
+
+def user_section(table):
+    """A section from its geometry, a [[member]] ``section`` table: ``shape`` (rolled-I, welded-I, RHS,
+    CHS) and its dimensions in mm (:data:`SECTION_SHAPES`)."""
+    shapes = ", ".join(SECTION_SHAPES)
+    if not isinstance(table, dict):
+        raise InputError("section", table, "a catalogue name such as 'IPE 300' or a table with shape = one of " + shapes)
+    shape = table.get("shape")
+    if shape not in SECTION_SHAPES:
+        raise InputError("section", shape, f"shape must be one of {shapes}")
+    keys = SECTION_SHAPES[shape]
+    extra = [k for k in table if k not in keys and k != "shape"]
+    if extra:
+        raise InputError("section", extra[0], f"is not a dimension of a {shape} section ({', '.join(keys)})")
+    dims = []
+    for k in keys:
+        v = table.get(k)
+        if not _is_num(v) or not math.isfinite(v) or not 0 < v <= 5000:
+            raise InputError("section", v, f"{k} of a {shape} section: a number > 0 and <= 5000 [mm]")
+        dims.append(float(v))
+    label = f"{shape} " + "x".join(f"{d:g}" for d in dims)
+    if shape == "rolled-I":
+        return sec.rolled_i_section(*dims, name=label)
+    if shape == "welded-I":
+        return sec.welded_i_section(*dims, name=label)
+    if shape == "RHS":
+        return sec.rhs_section(*dims, name=label)
+    return sec.chs_section(*dims, name=label)
 
 
 def read_members(blocks, materials, code) -> tuple:
@@ -243,13 +315,17 @@ def _block(rows: MemberRows, materials, code):
     rule(_first(rows, "kind", lambda v: _text_problem(v, KINDS)))
     rule(_first(rows, "laterally_restrained",
                 lambda v: None if v is ABSENT or type(v) is bool else "must be true or false"))
-    rule(_first_where(rows, lambda i: restrained[i] is not ABSENT and kind_of[i] != "beam", "laterally_restrained",
-                      'applies to beams only (kind = "beam")'))
+    rule(_first_where(rows, lambda i: restrained[i] is not ABSENT and kind_of[i] == "tension", "laterally_restrained",
+                      'does not apply to a tension member'))
     rule(_first(rows, "utilisation", lambda v: _number_problem(v, "-", -math.inf, math.inf) or (
         None if v is ABSENT or mu_lo <= v < mu_hi else f"must be >= {mu_lo:g} and < {mu_hi:g} (EN 1993-1-2 eq (4.22))")))
     unit, lo, hi = MEMBER_NUMBERS["critical_temperature_C"]
     rule(_first(rows, "critical_temperature_C", lambda v: _number_problem(v, unit, lo, hi)))
-    rule(_first_where(rows, lambda i: (mu[i] is ABSENT) == (tcr[i] is ABSENT), "utilisation",
+    rule(_first_where(rows, lambda i: mu[i] is ABSENT and tcr[i] is ABSENT and col("axial_force_kN")[i] is ABSENT
+                      and col("moment_y_kNm")[i] is ABSENT, "utilisation",
+                      "give utilisation or critical_temperature_C (or the design effects axial_force_kN, "
+                      "moment_y_kNm for a check by resistance), exactly one"))
+    rule(_first_where(rows, lambda i: mu[i] is not ABSENT and tcr[i] is not ABSENT, "utilisation",
                       "give utilisation or critical_temperature_C, exactly one"))
     rule(_first(rows, "protection", lambda v: _text_problem(v) or (
         None if v is ABSENT or v in materials else f"must name a [materials] table ({known})")))
@@ -257,7 +333,8 @@ def _block(rows: MemberRows, materials, code):
     rule(_first(rows, "thickness_mm", lambda v: _number_problem(v, unit, lo, hi)))
     rule(_first_where(rows, lambda i: thick[i] is not ABSENT and prot[i] is ABSENT, "thickness_mm",
                       "needs protection = a [materials] name"))
-    for k in ("section", "exposure", "encasement"):
+    rule(_first(rows, "section", lambda v: None if isinstance(v, dict) else _text_problem(v)))
+    for k in ("exposure", "encasement"):
         rule(_first(rows, k, _text_problem))
     unit, lo, hi = MEMBER_NUMBERS["shadow_factor"]
     rule(_first(rows, "shadow_factor", lambda v: _number_problem(v, unit, lo, hi)))
@@ -270,7 +347,7 @@ def _block(rows: MemberRows, materials, code):
                       'a bare member is heated on its profile ("profile")'))
     if "section" in c:
         def section_problem(i):
-            if section[i] is ABSENT or not isinstance(section[i], str):
+            if section[i] is ABSENT or not isinstance(section[i], (str, dict)):
                 return None
             got = sections.get(section[i], _or(exposure[i], "4-sided"), _or(encasement[i], "profile"))
             return got if isinstance(got[1], InputError) else None
@@ -293,6 +370,50 @@ def _block(rows: MemberRows, materials, code):
                       f"must be >= {MIN_SECTION_FACTOR_PROTECTED_PER_M:g} 1/m"))
     unit, lo, hi = MEMBER_NUMBERS["required_minutes"]
     rule(_first(rows, "required_minutes", lambda v: _number_problem(v, unit, lo, hi)))
+    # members checked by their resistance (EN 1993-1-2 4.2.3)
+    rule(_first(rows, "steel_grade", _text_problem))
+    for k, (unit, lo, hi, lo_open) in DESIGN_NUMBERS.items():
+        rule(_first(rows, k, lambda v, u=unit, a=lo, b=hi, o=lo_open: _number_problem(v, u, a, b, lo_open=o)))
+    axial, moment, grade = col("axial_force_kN"), col("moment_y_kNm"), col("steel_grade")
+    effects = [axial[i] is not ABSENT or moment[i] is not ABSENT for i in range(n)]
+    rule(_first_where(rows, lambda i: effects[i] and (mu[i] is not ABSENT or tcr[i] is not ABSENT),
+                      "axial_force_kN" if "axial_force_kN" in c else "moment_y_kNm",
+                      "give the design effects (axial_force_kN, moment_y_kNm) or utilisation or "
+                      "critical_temperature_C, one way only", value_key=None))
+    for k in DESIGN_KEYS:
+        if k in c:
+            rule(_first_where(rows, lambda i, k=k: col(k)[i] is not ABSENT and not effects[i], k,
+                              "needs the design effects in fire (axial_force_kN and/or moment_y_kNm)"))
+    rule(_first_where(rows, lambda i: effects[i] and section[i] is ABSENT, "section",
+                      "is missing; a member checked by its resistance needs its section (a catalogue name or "
+                      "a table with shape and dimensions)"))
+    rule(_first_where(rows, lambda i: effects[i] and grade[i] is ABSENT, "steel_grade",
+                      "is missing; one of S235, S275, S355, S420, S460 (EN 10025)"))
+    for k in ("buckling_length_y_m", "buckling_length_z_m"):
+        rule(_first_where(rows, lambda i, k=k: col(k)[i] is not ABSENT and col("buckling_length_m")[i] is not ABSENT,
+                          k, "not together with buckling_length_m (that sets both axes)"))
+    lengths = [col("buckling_length_m")[i] is not ABSENT or (col("buckling_length_y_m")[i] is not ABSENT
+                                                           and col("buckling_length_z_m")[i] is not ABSENT)
+               for i in range(n)]
+    rule(_first_where(rows, lambda i: effects[i] and not lengths[i] and (
+        kind_of[i] in ("column", "brace") or (_is_num(axial[i]) and axial[i] > 0)), "buckling_length_m",
+        "is missing; a member in compression (and every column and brace) needs buckling_length_m (both axes) "
+        "or buckling_length_y_m and buckling_length_z_m"))
+    rule(_first_where(rows, lambda i: effects[i] and _is_num(moment[i]) and moment[i] > 0 and restrained[i] is not True
+                      and col("lateral_restraint_length_m")[i] is ABSENT
+                      and (isinstance(section[i], dict) and section[i].get("shape", "").endswith("-I")
+                           or isinstance(section[i], str) and not section[i].upper().startswith(("RHS", "SHS", "CHS"))),
+                      "lateral_restraint_length_m",
+                      "is missing; an I-section with a moment needs the length between lateral restraints "
+                      "(or laterally_restrained = true)"))
+    unstable = [kind_of[i] in ("column", "brace", "other")
+                or (kind_of[i] == "beam" and restrained[i] is not True) for i in range(n)]
+    rule(_first_where(rows, lambda i: unstable[i] and mu[i] is not ABSENT and not effects[i], "utilisation",
+                      lambda i: (f"EN 1993-1-2 eq (4.22) holds only for members without instability; a "
+                                 f"{'laterally unrestrained beam' if kind_of[i] == 'beam' else kind_of[i]} needs its "
+                                 "resistance: give axial_force_kN and/or moment_y_kNm with section, steel_grade and "
+                                 + ("lateral_restraint_length_m (or laterally_restrained = true)" if kind_of[i] == "beam"
+                                    else "buckling_length_m") + ", or give critical_temperature_C")))
 
     if problems:
         i, _, (row, key, value, allowed) = min(problems, key=lambda p: (p[0], p[1]))
@@ -305,11 +426,16 @@ def _block(rows: MemberRows, materials, code):
         notes = []
         s = section[i]
         i_sec = False
+        geom = None
         if s is not ABSENT:
             geom, sf, ratio = sections.get(s, _or(exposure[i], "4-sided"), _or(encasement[i], "profile"))
             i_sec = isinstance(geom, sec.ISection)
         else:
             sf, ratio = float(am_v[i]), 1.0
+        design = None
+        if axial[i] is not ABSENT or moment[i] is not ABSENT:
+            design = {k: col(k)[i] for k in DESIGN_KEYS if col(k)[i] is not ABSENT}
+            design.update(kind=kind_of[i], laterally_restrained=restrained[i] is True)
         p = None if prot[i] is ABSENT else prot[i]
         if p is None and ksh[i] is not ABSENT:
             ratio = float(ksh[i])
@@ -324,9 +450,11 @@ def _block(rows: MemberRows, materials, code):
             required_minutes=None if req[i] is ABSENT else float(req[i]),
             shadow_factor=None if ksh[i] is ABSENT else float(ksh[i]),
             laterally_restrained=None if restrained[i] is ABSENT else restrained[i],
-            section=None if s is ABSENT else s, exposure=None if exposure[i] is ABSENT else exposure[i],
+            section=None if s is ABSENT else (s if isinstance(s, str) else geom.name),
+            exposure=None if exposure[i] is ABSENT else exposure[i],
             encasement=None if encasement[i] is ABSENT else encasement[i],
-            shadow_ratio=ratio if p is None else 1.0, i_section=i_sec, notes=tuple(notes)))
+            shadow_ratio=ratio if p is None else 1.0, i_section=i_sec, notes=tuple(notes), design=design,
+            geometry=geom))
     return out
 
 

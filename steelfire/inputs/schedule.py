@@ -20,6 +20,10 @@ COLUMNS = {
     "name": str, "kind": str, "laterally_restrained": bool, "section_factor_per_m": float,
     "utilisation": float, "critical_temperature_C": float, "protection": str, "thickness_mm": float,
     "required_minutes": float, "shadow_factor": float, "section": str, "exposure": str, "encasement": str,
+    "steel_grade": str, "axial_force_kN": float, "moment_y_kNm": float, "buckling_length_m": float,
+    "buckling_length_y_m": float, "buckling_length_z_m": float, "lateral_restraint_length_m": float,
+    "moment_factor_C1": float, "adaptation_factor_k1": float, "adaptation_factor_k2": float,
+    "equivalent_moment_factor_y": float, "equivalent_moment_factor_LT": float,
 }
 assert set(COLUMNS) == set(MEMBER_KEYS)
 MAX_ROWS = 200_000

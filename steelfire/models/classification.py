@@ -45,6 +45,7 @@ from typing import Mapping, Optional, Sequence
 
 import numpy as np
 
+from steelfire.codevalues import DEFAULTS
 from steelfire.errors import InputError
 from steelfire.models.sections import SectionProperties
 
@@ -62,7 +63,7 @@ __all__ = [
 ]
 
 #: epsilon = 0.85 sqrt(235 / f_y) in fire, EN 1993-1-2 4.2.2(1); code value ``fire_epsilon_coefficient``.
-FIRE_EPSILON_COEFFICIENT = 0.85
+FIRE_EPSILON_COEFFICIENT = DEFAULTS["fire_epsilon_coefficient"]
 #: The 235 MPa of epsilon, EN 1993-1-1 Table 5.2 (and EN 1993-1-2 4.2.2(1)).
 REFERENCE_YIELD_STRENGTH_MPA = 235.0
 

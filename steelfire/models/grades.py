@@ -24,6 +24,7 @@ import math
 import numbers
 from dataclasses import dataclass
 
+from steelfire.codevalues import DEFAULTS
 from steelfire.errors import InputError, OutOfScopeError
 
 __all__ = [
@@ -38,9 +39,9 @@ __all__ = [
 ]
 
 #: Modulus of elasticity E [MPa], EN 1993-1-1 3.2.6(1).
-ELASTIC_MODULUS_MPA = 210000.0
+ELASTIC_MODULUS_MPA = DEFAULTS["steel_elastic_modulus_MPa"]
 #: Shear modulus G ~ E / (2 (1 + nu)) = 81000 MPa [MPa], EN 1993-1-1 3.2.6(1).
-SHEAR_MODULUS_MPA = 81000.0
+SHEAR_MODULUS_MPA = DEFAULTS["steel_shear_modulus_MPa"]
 
 # Rows: (largest nominal thickness of the band [mm], f_y [MPa], f_u [MPa]); a thickness t falls in the
 # first band with t <= its upper bound. f_u is the lower end of the tabulated range; EN 10025-2 gives

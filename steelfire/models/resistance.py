@@ -60,6 +60,7 @@ from typing import Any, Mapping, Optional, Sequence
 
 import numpy as np
 
+from steelfire import codevalues
 from steelfire.errors import InputError, OutOfScopeError
 from steelfire.models import classification, grades
 from steelfire.models import sections as sec
@@ -81,25 +82,13 @@ __all__ = [
     "resistances_at",
 ]
 
-# Every value taken from a clause: name -> (EN value, unit, clause, (lo, hi) admissible range).
-CODE_VALUES = MappingProxyType({
-    "gamma_M_fi": (1.0, "-", "EN 1993-1-2 2.3(1), partial factor for the fire situation (recommended)",
-                   (1.0, 2.0)),
-    "class4_critical_temperature_C": (350.0, "C", "EN 1993-1-2 4.2.3.6(2), critical temperature of "
-                                      "class 4 sections (recommended)", (100.0, 700.0)),
-    "fire_imperfection_coefficient": (0.65, "-", "EN 1993-1-2 4.2.3.2(2) eq (4.7), "
-                                      "alpha = 0.65 sqrt(235 / f_y)", (0.1, 2.0)),
-    "fire_epsilon_coefficient": (classification.FIRE_EPSILON_COEFFICIENT, "-",
-                                 "EN 1993-1-2 4.2.2(1) eq (4.2), epsilon = 0.85 sqrt(235 / f_y)", (0.5, 1.0)),
-    "steel_elastic_modulus_MPa": (grades.ELASTIC_MODULUS_MPA, "MPa", "EN 1993-1-1 3.2.6(1), E",
-                                  (150000.0, 250000.0)),
-    "steel_shear_modulus_MPa": (grades.SHEAR_MODULUS_MPA, "MPa", "EN 1993-1-1 3.2.6(1), G",
-                                (50000.0, 100000.0)),
-    "equivalent_moment_factor_uniform": (1.1, "-", "EN 1993-1-2 Figure 4.2, beta_M,psi = 1.8 - 0.7 psi "
-                                         "at psi = 1 (uniform moment)", (1.1, 2.5)),
-    "combined_slenderness_y_max": (1.1, "-", "EN 1993-1-2 4.2.3.5(1), mu_y for lambda_y,20C <= 1.1",
-                                   (0.0, 10.0)),
-})
+#: The clause values this module reads, defined in the one registry (:mod:`steelfire.codevalues`):
+#: name -> (EN value, unit, clause, (lo, hi) admissible range).
+CODE_VALUE_NAMES = ("gamma_M_fi", "class4_critical_temperature_C", "fire_imperfection_coefficient",
+                    "fire_epsilon_coefficient", "steel_elastic_modulus_MPa", "steel_shear_modulus_MPa",
+                    "equivalent_moment_factor_uniform", "combined_slenderness_y_max")
+CODE_VALUES = MappingProxyType({n: (d.value, d.unit, d.clause, (d.minimum, d.maximum))
+                                for n, d in codevalues.DEFINITIONS.items() if n in CODE_VALUE_NAMES})
 
 #: Member kinds of the case-file contract.
 KINDS = ("beam", "column", "tension", "brace", "other")

@@ -119,6 +119,12 @@ def member_entries(table) -> list:
                 "annex_f_small_compartment_min": eq_cols["annex_f_small_compartment_min"][i]}
         else:
             d["equivalence"] = None
+        for k in ("section", "exposure", "encasement"):
+            d[k] = c[k][i] if k in c else None
+        if "resistance" in c:
+            d["resistance"] = _sig_tree(c["resistance"][i])
+        if "details" in c:
+            d["details"] = _sig_tree(c["details"][i])
         if table.sizing is not None:
             d["sizing"] = _sizing_entry(table.sizing[i])
         out.append(d)
