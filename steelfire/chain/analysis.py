@@ -73,6 +73,7 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
 
     nominal = fire.nominal
     details = member_details(case, cols, peak, nominal)
+    resistance_curves(case, resistance, crit - peak)
     table = MemberTable(
         {"name": [m.name for m in members], "kind": [m.kind for m in members],
          "section_factor_per_m": cols.section_factor_per_m, "protection": [m.protection for m in members],
@@ -134,3 +135,27 @@ def member_details(case, cols, peak_C, nominal_fire):
             d["notes"] = list(m.notes)
         out.append(d)
     return out
+
+
+#: How many members checked by resistance get their utilisation against temperature in the document
+#: (those with the smallest margins), for the report's figure.
+CURVE_MEMBERS = 6
+
+
+def resistance_curves(case, resistance, margin_C):
+    """Add to the resistance entries of the governing members (smallest margin) their utilisation
+    E_fi,d / R_fi,d,theta against a uniform steel temperature 20-1200 C (EN 1993-1-2 4.2.3), in place."""
+    from steelfire.models import resistance as res
+
+    idx = [i for i, r in enumerate(resistance) if r is not None and not r["fails_at_20C"]]
+    if not idx:
+        return
+    idx = sorted(idx, key=lambda i: margin_C[i])[:CURVE_MEMBERS]
+    members = [case.members[i] for i in idx]
+    design = res.MemberDesign.from_members([{**m.design, "section": m.geometry} for m in members])
+    grid = np.arange(20.0, 1200.0 + 1e-9, 20.0)
+    util = np.array([res.resistances_at(design, t, case.code,
+                                        allow_out_of_scope=case.analysis.allow_out_of_scope).utilisation
+                     for t in grid])
+    for j, i in enumerate(idx):
+        resistance[i]["utilisation_curve"] = {"temperature_C": grid.tolist(), "utilisation": util[:, j].tolist()}
