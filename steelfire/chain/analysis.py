@@ -41,7 +41,13 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     sev = fires.severity(case)
     warnings = list(fire.warnings)
     t = fires.time_grid(case.fire.duration_min * 60.0, case.analysis.time_step_s, fire.key_times_s)
-    g = np.asarray(fire.gas_temperature_C(t), dtype=float)
+    if fire.exposure is not None:   # a fire that differs from member to member
+        ex = fire.exposure(t)
+        exposures = thermal.Exposures(t, ex.gas_C, ex.member_columns, ex.column_labels)
+        g = exposures.gas_C.max(axis=1)
+    else:
+        g = np.asarray(fire.gas_temperature_C(t), dtype=float)
+        exposures = thermal.Exposures.uniform(t, g, len(members))
     i_peak = int(np.argmax(g))
     crit, source, resistance = verdicts.critical_temperatures(members, code, case.analysis.allow_out_of_scope,
                                                               case.label)
@@ -51,8 +57,8 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     alpha_std = code["alpha_c_standard"]
     thermal.check_bare_step(case, cols, [(t, g, fire.alpha_c, fire.nominal, "design fire"),
                                          (ts, gs, alpha_std, True, "standard fire of the times to critical")])
-    design = thermal.run(code, t, g, cols.rows(alpha_c=fire.alpha_c, nominal_fire=fire.nominal),
-                         keep_history=histories)
+    design, governing = exposures.run(code, cols, keep_history=histories, alpha_c=fire.alpha_c,
+                                      nominal_fire=fire.nominal)
     peak = design.peak_C
     # the standard fire (EN 1991-1-2 3.2.1) for times to critical and for the equal-steel-temperature
     # equivalence: when the same member reaches its design-fire peak (each member twice, one threshold each)
@@ -66,8 +72,8 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     rising = []
     if fire.cools and np.any(~cols.bare):
         prot = np.flatnonzero(~cols.bare)
-        thick = thermal.run(code, t, g, cols.rows(alpha_c=fire.alpha_c, nominal_fire=fire.nominal, select=prot,
-                                                  thickness_mm=cols.thickness_mm[prot] * (1.0 + THICKNESS_PROBE)))
+        thick, _ = exposures.run(code, cols, select=prot, alpha_c=fire.alpha_c, nominal_fire=fire.nominal,
+                                 thickness_mm=cols.thickness_mm[prot] * (1.0 + THICKNESS_PROBE))
         rising = [members[i].name for i in prot[thick.peak_C > peak[prot] + 0.01]]
     warnings += verdicts.member_warnings(case, fire, cols, peak, design.last_increment_C, rising)
 
@@ -86,13 +92,16 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
                            for m, k in zip(members, cols.shadow_factor(nominal))],
          "utilisation": [m.utilisation for m in members],
          "section": [m.section for m in members], "exposure": [m.exposure for m in members],
-         "encasement": [m.encasement for m in members], "resistance": resistance, "details": details},
+         "encasement": [m.encasement for m in members], "resistance": resistance, "details": details,
+         "governing_exposure": None if exposures.labels is None else [exposures.labels[k] for k in governing]},
         histories=design.history_C if histories else None, equivalence=equiv)
     fr = FireResult(curve=case.fire.curve, duration_min=case.fire.duration_min, convection_coefficient=fire.alpha_c,
                     time_s=t, gas_temperature_C=g, peak_gas_temperature_C=float(g[i_peak]),
                     time_of_peak_gas_min=float(t[i_peak] / 60.0), values=dict(fire.values),
                     quantities=tuple(fire.quantities), equivalence_factors=factors, nominal=fire.nominal,
                     cools=fire.cools)
+    fr.series = fire.series(t) if fire.series is not None else {}
+    fr.exposure_C = exposures.gas_C[:, governing] if (histories and exposures.labels is not None) else None
     return AnalysisResult(title=case.title, fire=fr, members=MemberResults(table), code_values=dict(code),
                           warnings=list(fire.out_of_scope) + warnings, out_of_scope=list(fire.out_of_scope),
                           time_step_s=case.analysis.time_step_s,

@@ -29,7 +29,10 @@ def design_fire(case) -> DesignFire:
     setup = FireSetup(curve=spec.curve, duration_min=spec.duration_min, code=case.code,
                       convection_coefficient=spec.convection_coefficient,
                       allow_out_of_scope=case.analysis.allow_out_of_scope, compartment=case.compartment,
-                      fire_load=case.fire_load, severity=sev, table=spec.table)
+                      fire_load=case.fire_load, severity=sev, table=spec.table, options=spec.options,
+                      heat_release=spec.heat_release, positions=tuple(m.position for m in case.members),
+                      emissivity_resultant=case.code["configuration_factor"] * case.code["emissivity_steel"]
+                      * case.code["emissivity_fire"])
     fire = fire_models.design_fire(setup)
     if sev is not None:
         from steelfire.models.fire.compartment import SEVERITY_QUANTITIES

@@ -41,6 +41,7 @@ class Fire:
     gas_C: np.ndarray
     alpha_c: float
     nominal: bool = False
+    exposures: object = None   # chain.thermal.Exposures of a fire that differs from member to member
 
 
 @dataclass
@@ -74,8 +75,12 @@ class Problem:
 
     def _run(self, fire: Fire, idx, d_m, threshold):
         self.kernel_calls += 1
+        d_mm = np.asarray(d_m, dtype=float) * 1e3
+        if fire.exposures is not None:
+            return fire.exposures.run(self.code, self.cols, select=self.members[idx], alpha_c=fire.alpha_c,
+                                      nominal_fire=fire.nominal, thickness_mm=d_mm, thresholds_C=threshold)[0]
         rows = self.cols.rows(alpha_c=fire.alpha_c, nominal_fire=fire.nominal, select=self.members[idx],
-                              thickness_mm=np.asarray(d_m, dtype=float) * 1e3, thresholds_C=threshold)
+                              thickness_mm=d_mm, thresholds_C=threshold)
         return thermal.run(self.code, fire.time_s, fire.gas_C, rows)
 
     def standard_passes(self, idx, d_m):
@@ -233,7 +238,12 @@ def _sizing_fires(case):
     step = case.analysis.time_step_s
     fire = fires.design_fire(case)
     t = fires.time_grid(case.fire.duration_min * 60.0, step, fire.key_times_s)
-    design = Fire(t, np.asarray(fire.gas_temperature_C(t), dtype=float), float(fire.alpha_c), fire.nominal)
+    if fire.exposure is not None:
+        ex = fire.exposure(t)
+        exposures = thermal.Exposures(t, ex.gas_C, ex.member_columns, ex.column_labels)
+        design = Fire(t, exposures.gas_C.max(axis=1), float(fire.alpha_c), fire.nominal, exposures)
+    else:
+        design = Fire(t, np.asarray(fire.gas_temperature_C(t), dtype=float), float(fire.alpha_c), fire.nominal)
     req = [m.required_minutes for m in case.members if m.required_minutes is not None]
     ts, gs = fires.standard_fire(case, max(req) if req else step / 60.0)
     standard = Fire(ts, gs, float(case.code["alpha_c_standard"]), True)

@@ -120,3 +120,48 @@ def check_bare_step(case, cols: MemberColumns, fires):
                 f"{limit:.4g} 1/m (here k_sh = {k_sh:.3g}; alpha_c = {alpha_c:g} W/(m2 K), "
                 f"code.steel_density_kg_m3 = {code['steel_density_kg_m3']:g}, gas up to "
                 f"{float(np.max(gas_C)):.0f} C); give a smaller time step, or check the [code] values")
+
+
+class Exposures:
+    """The design fire as the members see it: gas temperatures on the grid, one column per exposure
+    (T x F), and the columns each member is checked against (the worst governs)."""
+
+    def __init__(self, time_s, gas_C, member_columns, labels=None):
+        self.time_s = time_s
+        self.gas_C = np.asarray(gas_C, dtype=float).reshape(len(time_s), -1)
+        self.member_columns = [np.asarray(c, dtype=np.int64) for c in member_columns]
+        self.labels = labels
+
+    @classmethod
+    def uniform(cls, time_s, gas_C, n_members):
+        return cls(time_s, gas_C, [[0]] * n_members)
+
+    def rows(self, cols: MemberColumns, select, **kw):
+        """(kernel rows of the members ``select`` in every column they see, the member index of each row)."""
+        select = np.asarray(select, dtype=np.int64)
+        counts = np.array([len(self.member_columns[i]) for i in select], dtype=np.int64)
+        which = np.repeat(np.arange(len(select)), counts)
+        fire = np.concatenate([self.member_columns[i] for i in select]) if len(select) else np.zeros(0, np.int64)
+        thickness = kw.pop("thickness_mm", None)
+        thresholds = kw.pop("thresholds_C", np.inf)
+        return cols.rows(select=select[which], fire=fire,
+                         thickness_mm=None if thickness is None else np.asarray(thickness)[which],
+                         thresholds_C=np.broadcast_to(thresholds, (len(select),))[which] if np.ndim(thresholds)
+                         else thresholds, **kw), which, counts
+
+    def run(self, code, cols: MemberColumns, select=None, keep_history=False, **kw):
+        """The members ``select`` (all if None) through the kernels in every column they see, reduced to one
+        result per member: the row with the highest peak governs (its peak, time, last step, history)."""
+        select = np.arange(len(cols)) if select is None else np.asarray(select, dtype=np.int64)
+        rows, which, counts = self.rows(cols, select, **kw)
+        r = run(code, self.time_s, self.gas_C, rows, keep_history=keep_history)
+        if np.all(counts == 1):
+            return r, rows.fire
+        starts = np.concatenate([[0], np.cumsum(counts)[:-1]])
+        order = np.lexsort((-r.peak_C, which))          # by member, highest peak first
+        gov = order[np.searchsorted(which[order], np.arange(len(select)))]
+        assert np.all(which[gov] == np.arange(len(select))) and len(starts) == len(select)
+        hist = r.history_C[:, gov] if keep_history else r.history_C
+        out = heat.ThermalRun(r.peak_C[gov], r.peak_time_s[gov], r.crossing_time_s[gov], r.at_query_C[gov],
+                              r.last_increment_C[gov], np.maximum.reduceat(r.excess_C, starts), hist)
+        return out, rows.fire[gov]

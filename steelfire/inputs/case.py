@@ -48,7 +48,8 @@ INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
 TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file",
             "record")
 RECORD_KEYS = ("project", "job_number", "revision", "prepared_by", "checked_by", "date", "notes")
-FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient")
+FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient", "heat_release_file") + tuple(
+    c for c in fire_models.MODELS if fire_models.options(c))
 ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope")
 COMPARTMENT_KEYS = ("floor_area_m2", "height_m", "boundary_area_m2", "thermal_inertia", "roof_opening_area_m2",
                     "opening", "surface")
@@ -56,7 +57,7 @@ OPENING_KEYS = ("width_m", "height_m", "count")
 SURFACE_KEYS = ("area_m2", "layers")
 LAYER_KEYS = ("thickness_m", "density", "conductivity", "specific_heat")
 FIRE_LOAD_KEYS = ("characteristic_MJ_m2", "design_MJ_m2", "combustion_factor", "area_factor", "occupancy_factor",
-                  "measures_factor", "growth")
+                  "measures_factor", "growth", "heat_release_density_kW_m2", "fire_area_m2")
 
 
 @dataclass(frozen=True)
@@ -68,6 +69,9 @@ class FireSpec:
     file: Path | None = None
     convection_coefficient: float | None = None
     table: object = field(default=None, compare=False, repr=False)
+    options: dict = field(default_factory=dict)
+    heat_release_file: Path | None = None
+    heat_release: object = field(default=None, compare=False, repr=False)
 
 
 @dataclass(frozen=True)
@@ -165,6 +169,14 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
             raise InputError("compartment", None, f"is missing; the {fire.curve} curve needs the compartment")
         if need == "fire_load" and fire_load is None:
             raise InputError("fire_load", None, f"is missing; the {fire.curve} curve needs the fire load")
+        if need == "fire_load_or_heat_release" and fire.heat_release is None:
+            if fire_load is None:
+                raise InputError("fire_load", None, f"is missing; the {fire.curve} curve needs the fire load (for the "
+                                 "heat release of EN 1991-1-2 E.4) or fire.heat_release_file")
+            for key in ("fire_area_m2", "heat_release_density_kW_m2"):
+                if getattr(fire_load, key) is None:
+                    raise InputError(f"fire_load.{key}", None, f"is missing; the heat release of EN 1991-1-2 E.4 "
+                                     f"needs it (or give fire.heat_release_file)")
     if "compartment" in fire_models.needs(fire.curve) and compartment.thermal_inertia is None \
             and not compartment.surfaces:
         raise InputError("compartment.thermal_inertia", None,
@@ -176,6 +188,8 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     inputs = [Path(source)] if source else []
     if fire.file is not None:
         inputs.append(fire.file)
+    if fire.heat_release_file is not None:
+        inputs.append(fire.heat_release_file)
     blocks = [member_rows.inline_rows(members_raw)]
     if top.has("members_file"):
         sched = top.string("members_file")
@@ -189,6 +203,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     members = member_rows.read_members(blocks, materials, code)
     names = tuple(m.name for m in members)
     places = MemberPlaces(names=names, blocks=tuple((b.n, b.where) for b in blocks))
+    _check_positions(fire, members, places)
     if len(set(names)) != len(names):
         _refuse_repeated_name(places, members)
     top.done()
@@ -205,6 +220,36 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
                 code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs),
                 member_places=places, record=record)
+
+
+def _check_positions(fire, members, places):
+    """Every member has the ``position`` keys its fire model reads, inside the fire's space; no member
+    gives one that the fire does not read."""
+    keys = fire_models.position_keys(fire.curve)
+    for k, m in enumerate(members):
+        p = m.position
+        if not keys:
+            if p is not None:
+                raise InputError(f"{places.label(k, m)}.position", p, "is only used with curve = \"localised\" or "
+                                 "\"travelling\"")
+            continue
+        want = "{ " + ", ".join(f"{x} = ..." for x in keys) + " }"
+        if p is None:
+            raise InputError(f"{places.label(k, m)}.position", None, f"is missing; the {fire.curve} fire needs {want} [m]")
+        for x in keys:
+            if x not in p:
+                raise InputError(f"{places.label(k, m)}.position.{x}", None, f"is missing; the {fire.curve} fire needs {want} [m]")
+        extra = [x for x in p if x not in keys]
+        if extra:
+            raise InputError(f"{places.label(k, m)}.position.{extra[0]}", p[extra[0]],
+                             f"is not used by the {fire.curve} fire (it reads {', '.join(keys)})")
+        o = fire.options
+        if "height_m" in p and p["height_m"] > o["ceiling_height_m"]:
+            raise InputError(f"{places.label(k, m)}.position.height_m", p["height_m"],
+                             f"must be <= fire.{fire.curve}.ceiling_height_m = {o['ceiling_height_m']:g} m")
+        if "along_m" in p and p["along_m"] > o["length_m"]:
+            raise InputError(f"{places.label(k, m)}.position.along_m", p["along_m"],
+                             f"must lie on the floor, 0 to fire.{fire.curve}.length_m = {o['length_m']:g} m")
 
 
 def _refuse_repeated_name(places, members):
@@ -299,8 +344,36 @@ def _read_fire(t: TableReader | None, base_dir: Path) -> FireSpec:
                              f"must not exceed the last time of {table.source} ({table.time_s[-1] / 60:g} min)")
     elif t.has("file"):
         raise InputError("fire.file", t.raw("file"), 'is only used with curve = "table"')
+    hr_file = hr = None
+    if t.has("heat_release_file"):
+        if curve != "localised":
+            raise InputError("fire.heat_release_file", t.raw("heat_release_file"), 'is only used with curve = "localised"')
+        hr_file = base_dir / t.string("heat_release_file")
+        from steelfire.models.fire.heatrelease import read_heat_release_csv
+
+        hr = read_heat_release_csv(hr_file)
+    options = {}
+    for other in fire_models.MODELS:
+        if other != curve and t.has(other) and fire_models.options(other):
+            raise InputError(f"fire.{other}", "{...}", f'is only used with curve = "{other}"')
+    if fire_models.options(curve):
+        sub = TableReader(t.raw(curve, {}), f"fire.{curve}", keys=tuple(o.key for o in fire_models.options(curve)))
+        for o in fire_models.options(curve):
+            if o.many and isinstance(sub.raw(o.key), list):
+                vals = sub.raw(o.key)
+                if not vals:
+                    raise InputError(f"fire.{curve}.{o.key}", vals, "must hold at least one value")
+                for j, v in enumerate(vals):
+                    TableReader({o.key: v}, f"fire.{curve}").number(o.key, o.unit, lo=o.lo, hi=o.hi, lo_open=o.lo_open)
+                options[o.key] = [float(v) for v in vals]
+            else:
+                v = sub.number(o.key, o.unit, required=o.required, default=o.default, lo=o.lo, hi=o.hi,
+                               lo_open=o.lo_open)
+                options[o.key] = [v] if (o.many and v is not None) else v
+        sub.done()
     t.done()
-    return FireSpec(curve=curve, duration_min=duration, file=file, convection_coefficient=hc, table=table)
+    return FireSpec(curve=curve, duration_min=duration, file=file, convection_coefficient=hc, table=table,
+                    options=options, heat_release_file=hr_file, heat_release=hr)
 
 
 def _read_record(data) -> dict:
@@ -395,6 +468,8 @@ def _read_fire_load(data) -> FireLoad:
     d2 = t.number("occupancy_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
     dn = t.number("measures_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
     growth = t.string("growth", required=False, default="medium", choices=GROWTHS)
+    rhr = t.number("heat_release_density_kW_m2", "kW/m2", required=False, lo=0.0, lo_open=True, hi=10000.0)
+    a_fi = t.number("fire_area_m2", "m2", required=False, lo=0.0, lo_open=True, hi=1e6)
     t.done()
     if qd is not None:
         for key in ("combustion_factor", "area_factor", "occupancy_factor", "measures_factor"):
@@ -402,4 +477,5 @@ def _read_fire_load(data) -> FireLoad:
                 raise InputError(f"fire_load.{key}", data[key],
                                  "is not used with design_MJ_m2 (already a design value); remove it")
     return FireLoad(characteristic_MJ_m2=qk, design_MJ_m2=qd, combustion_factor=m, area_factor=area_factor,
-                    occupancy_factor=d2, measures_factor=dn, growth=growth)
+                    occupancy_factor=d2, measures_factor=dn, growth=growth, heat_release_density_kW_m2=rhr,
+                    fire_area_m2=a_fi)

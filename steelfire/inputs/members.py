@@ -25,7 +25,10 @@ MEMBER_KEYS = ("name", "kind", "laterally_restrained", "section_factor_per_m", "
                "section", "exposure", "encasement", "steel_grade", "axial_force_kN", "moment_y_kNm",
                "buckling_length_m", "buckling_length_y_m", "buckling_length_z_m", "lateral_restraint_length_m",
                "moment_factor_C1", "adaptation_factor_k1", "adaptation_factor_k2", "equivalent_moment_factor_y",
-               "equivalent_moment_factor_LT")
+               "equivalent_moment_factor_LT", "position")
+
+#: The keys of a member's ``position`` table (which a fire model reads: localised r and z, travelling x).
+POSITION_NUMBERS = {"distance_m": ("m", 0.0, 10000.0), "height_m": ("m", 0.0, 1000.0), "along_m": ("m", 0.0, 10000.0)}
 
 #: The keys of a member checked by its resistance (EN 1993-1-2 4.2.3), key -> (unit, lo, hi, lo_open).
 DESIGN_NUMBERS = {
@@ -103,6 +106,7 @@ class Member:
     notes: tuple = field(default=(), compare=False)
     design: dict | None = None
     geometry: object = field(default=None, compare=False, repr=False)
+    position: dict | None = None
 
     @property
     def by_resistance(self) -> bool:
@@ -370,6 +374,7 @@ def _block(rows: MemberRows, materials, code):
                       f"must be >= {MIN_SECTION_FACTOR_PROTECTED_PER_M:g} 1/m"))
     unit, lo, hi = MEMBER_NUMBERS["required_minutes"]
     rule(_first(rows, "required_minutes", lambda v: _number_problem(v, unit, lo, hi)))
+    rule(_first(rows, "position", _position_problem))
     # members checked by their resistance (EN 1993-1-2 4.2.3)
     rule(_first(rows, "steel_grade", _text_problem))
     for k, (unit, lo, hi, lo_open) in DESIGN_NUMBERS.items():
@@ -454,8 +459,26 @@ def _block(rows: MemberRows, materials, code):
             exposure=None if exposure[i] is ABSENT else exposure[i],
             encasement=None if encasement[i] is ABSENT else encasement[i],
             shadow_ratio=ratio if p is None else 1.0, i_section=i_sec, notes=tuple(notes), design=design,
-            geometry=geom))
+            geometry=geom, position=None if col("position")[i] is ABSENT
+            else {k: float(x) for k, x in col("position")[i].items()}))
     return out
+
+
+def _position_problem(v):
+    """Why ``v`` is not a position table (None if it is)."""
+    if v is ABSENT:
+        return None
+    keys = ", ".join(POSITION_NUMBERS)
+    if not isinstance(v, dict) or not v:
+        return f"must be a table of {keys} [m] (e.g. {{ distance_m = 3.0, height_m = 5.0 }})"
+    for k, x in v.items():
+        if k not in POSITION_NUMBERS:
+            return f"holds {k!r}; its keys are {keys}"
+        unit, lo, hi = POSITION_NUMBERS[k]
+        p = _number_problem(x, unit, lo, hi, lo_open=False)
+        if p is not None:
+            return f"{k} {p}"
+    return None
 
 
 def _or(v, default):

@@ -13,7 +13,7 @@ from pathlib import Path
 
 from steelfire.errors import InputError
 from steelfire.inputs.csvrows import read_rows_split
-from steelfire.inputs.members import ABSENT, MEMBER_KEYS, MemberRows
+from steelfire.inputs.members import ABSENT, MemberRows
 
 #: Column -> type of the member keys a schedule may carry.
 COLUMNS = {
@@ -24,8 +24,8 @@ COLUMNS = {
     "buckling_length_y_m": float, "buckling_length_z_m": float, "lateral_restraint_length_m": float,
     "moment_factor_C1": float, "adaptation_factor_k1": float, "adaptation_factor_k2": float,
     "equivalent_moment_factor_y": float, "equivalent_moment_factor_LT": float,
+    "position.distance_m": float, "position.height_m": float, "position.along_m": float,
 }
-assert set(COLUMNS) == set(MEMBER_KEYS)
 MAX_ROWS = 200_000
 
 #: Cell text (stripped, lower case) -> value of a true/false column.
@@ -50,7 +50,19 @@ def read_schedule(path, field: str = "members_file") -> MemberRows:
             raise InputError(f"{p.name} row {line}", ",".join(row)[:80], f"has {len(row)} cells; the header has {width}")
     columns = convert_columns(cols, [r + [""] * (width - len(r)) if len(r) < width else r for r in rows],
                               lambda i, col: f"{p.name} row {lines[i]} column {col}")
-    return MemberRows(len(rows), columns, lambda i: f"{p.name} row {lines[i]}")
+    return MemberRows(len(rows), nest_positions(columns), lambda i: f"{p.name} row {lines[i]}")
+
+
+def nest_positions(columns):
+    """The ``position.<key>`` columns as one ``position`` column of tables (ABSENT where a row gives none)."""
+    keys = [c for c in columns if c.startswith("position.")]
+    if not keys:
+        return columns
+    out = {c: v for c, v in columns.items() if c not in keys}
+    n = len(columns[keys[0]])
+    out["position"] = [{k.split(".", 1)[1]: columns[k][i] for k in keys if columns[k][i] is not ABSENT} or ABSENT
+                       for i in range(n)]
+    return out
 
 
 def check_header(cols, where):

@@ -121,6 +121,8 @@ def member_entries(table) -> list:
             d["equivalence"] = None
         for k in ("section", "exposure", "encasement"):
             d[k] = c[k][i] if k in c else None
+        if c.get("governing_exposure") is not None:
+            d["governing_exposure"] = c["governing_exposure"][i]
         if "resistance" in c:
             d["resistance"] = _sig_tree(c["resistance"][i])
         if "details" in c:

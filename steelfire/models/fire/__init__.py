@@ -5,7 +5,7 @@ what it needs from the case in ``NEEDS`` (``"compartment"``, ``"fire_load"``, ``
 model is one module and one line of :data:`MODELS`.
 """
 
-from steelfire.models.fire import nominal, parametric, tabulated
+from steelfire.models.fire import localised, nominal, parametric, tabulated, travelling
 from steelfire.models.fire.design import DesignFire, FireSetup, Quantity  # noqa: F401
 
 #: curve name -> model module.
@@ -15,6 +15,8 @@ MODELS = {
     "hydrocarbon": nominal,
     "external": nominal,
     "table": tabulated,
+    "localised": localised,
+    "travelling": travelling,
 }
 
 
@@ -26,3 +28,13 @@ def design_fire(setup: FireSetup) -> DesignFire:
 def needs(curve: str) -> tuple:
     """What the model of ``curve`` needs from the case: names of case tables."""
     return tuple(getattr(MODELS[curve], "NEEDS", ()))
+
+
+def options(curve: str) -> tuple:
+    """The keys of the model's own ``[fire.<curve>]`` table (:class:`.design.Option`)."""
+    return tuple(getattr(MODELS[curve], "OPTIONS", ()))
+
+
+def position_keys(curve: str) -> tuple:
+    """The keys of a member's ``position`` table the model needs (empty: no position)."""
+    return tuple(getattr(MODELS[curve], "POSITION_KEYS", ()))

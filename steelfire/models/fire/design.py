@@ -32,12 +32,45 @@ class Quantity:
 
 
 @dataclass(frozen=True)
+class Option:
+    """A key of a model's own ``[fire.<curve>]`` table: a number [``unit``] with lo < v <= hi (lo <= v where
+    ``lo_open`` is False), a list of such numbers (``many``), required or with a ``default``."""
+
+    key: str
+    unit: str
+    lo: float
+    hi: float
+    required: bool = True
+    default: Any = None
+    lo_open: bool = True
+    many: bool = False
+    help: str = ""
+
+
+@dataclass
+class Exposure:
+    """What each member sees of a fire that differs from member to member: gas temperatures [C] on the
+    run's grid, one column per exposure (T x F); ``member_columns[i]``: the columns member i is checked
+    against (the worst governs); ``column_labels``: what each column is (e.g. the fire size).
+
+    A heat-flux exposure enters as its adiabatic surface temperature (:mod:`.surface`), which gives the
+    net flux of EN 1991-1-2 eq (3.1)/(C.9) exactly with the fire's alpha_c and emissivity."""
+
+    gas_C: np.ndarray
+    member_columns: list
+    column_labels: list
+    series: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
 class FireSetup:
     """What a fire model is built from (plain values: models never read the case file).
 
     ``severity``: the compartment's fire-severity values (:func:`steelfire.models.fire.compartment.
     fire_severity`) where the case gives a compartment and a fire load, else None; ``table`` a
-    tabulated curve where the case gives one; ``options`` the model's own ``[fire.<curve>]`` table.
+    tabulated curve where the case gives one; ``options`` the model's own ``[fire.<curve>]`` table
+    (:class:`Option` keys, read and checked by the case loader); ``heat_release`` a heat-release history
+    read from a file; ``positions`` each member's ``position`` table (or None).
     """
 
     curve: str
@@ -50,6 +83,9 @@ class FireSetup:
     severity: Mapping[str, Any] | None = None
     table: Any = None
     options: Mapping[str, Any] = field(default_factory=dict)
+    heat_release: Any = None
+    positions: tuple = ()
+    emissivity_resultant: float = 0.7
 
 
 @dataclass
@@ -63,6 +99,9 @@ class DesignFire:
     (4.26a) for the shadow factor). ``values``: the intermediate values by key, shown in the order of
     ``quantities``; ``out_of_scope``: findings computed anyway (allow_out_of_scope); ``equivalence``:
     None where the time-equivalence formulas may be set beside it, else the reason they may not.
+    ``exposure(time_s)``: for a fire that differs from member to member, each member's exposure
+    (:class:`Exposure`; ``gas_temperature_C`` then gives the hottest of them, for the outputs);
+    ``series(time_s)``: histories the outputs plot (name -> array), e.g. the heat release.
     """
 
     curve: str
@@ -76,6 +115,8 @@ class DesignFire:
     warnings: list = field(default_factory=list)
     out_of_scope: list = field(default_factory=list)
     equivalence: str | None = None
+    exposure: Callable[[np.ndarray], Exposure] | None = None
+    series: Callable[[np.ndarray], dict] | None = None
 
 
 def convection(setup: FireSetup, code_name: str) -> float:

@@ -34,6 +34,25 @@ class FireLoad:
     occupancy_factor: float = 1.0
     measures_factor: float = 1.0
     growth: str = "medium"
+    heat_release_density_kW_m2: float | None = None   # RHR_f, EN 1991-1-2 Table E.5 (localised, travelling fires)
+    fire_area_m2: float | None = None                 # A_fi, the area on fire (localised fire)
+
+
+def design_density(fire_load: FireLoad, floor_area_m2, code=DEFAULTS):
+    """(q_f,d [MJ/m2], delta_q1 or None) of ``fire_load``: given, or EN 1991-1-2 E.(1) with delta_q1 by
+    Table E.1 for ``floor_area_m2`` (None: the fire load must give its area factor)."""
+    fl = fire_load
+    if fl.design_MJ_m2 is not None:
+        return fl.design_MJ_m2, None
+    if fl.area_factor == "auto":
+        if floor_area_m2 is None:
+            raise InputError("fire_load.area_factor", "auto",
+                             "needs the compartment's floor area; give a number (EN 1991-1-2 Table E.1)")
+        dq1 = area_factor(floor_area_m2, code)
+    else:
+        dq1 = fl.area_factor
+    return design_fire_load(fl.characteristic_MJ_m2, fl.combustion_factor, dq1, fl.occupancy_factor,
+                            fl.measures_factor), dq1
 
 
 def area_factor(floor_area_m2: float, code=DEFAULTS) -> float:

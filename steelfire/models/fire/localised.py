@@ -373,3 +373,102 @@ def member_exposure(time_s, heat_release_W, diameter_m, ceiling_height_m, distan
         time_s=t, heat_release_W=q, flame_length_m=lf, impacts_ceiling=impacts,
         gas_temperature_C=np.where(impacts, np.nan, gas), flux_W_m2=np.where(impacts, flux, np.nan),
         governing=governing.astype(np.int8), alpha_c=float(alpha_c), emissivity=float(emissivity))
+
+
+# ---------------------------------------------------------------------------------------------------
+# the localised fire as a design fire (the registry's "localised" curve)
+
+from steelfire.models.fire.design import DesignFire, FireSetup, Option, Quantity, Exposure, convection  # noqa: E402
+
+#: What the localised fire needs from the case, and its ``[fire.localised]`` keys.
+NEEDS = ("fire_load_or_heat_release", "positions")
+OPTIONS = (
+    Option("diameter_m", "m", 0.0, 100.0, required=False,
+           help="D of the fire; default: the equivalent diameter of fire_load.fire_area_m2"),
+    Option("ceiling_height_m", "m", 0.0, 200.0, help="H, from the fire source to the ceiling"),
+)
+#: The keys of a member's ``position`` table under a localised fire.
+POSITION_KEYS = ("distance_m", "height_m")
+
+QUANTITIES = (
+    Quantity("diameter_m", "fire diameter", "D", "m", "EN 1991-1-2 C.(1)"),
+    Quantity("ceiling_height_m", "ceiling height above the fire source", "H", "m", "EN 1991-1-2 C.(2)"),
+    Quantity("peak_heat_release_MW", "largest rate of heat release", "Q", "MW", "EN 1991-1-2 E.4"),
+    Quantity("time_of_peak_heat_release_min", "time of the largest heat release", "", "min", "EN 1991-1-2 E.4",
+             digits=2),
+    Quantity("largest_flame_length_m", "largest flame length", "L_f", "m", "EN 1991-1-2 eq (C.1)"),
+    Quantity("flame_reaches_ceiling", "flame reaches the ceiling", "L_f >= H", "", "EN 1991-1-2 C.(3), C.(4)"),
+    Quantity("heat_release_source", "heat release", "", "", "EN 1991-1-2 E.4, or the case's table"),
+)
+
+EQUIVALENCE_NOTE = ("a localised fire is not a fully developed compartment fire, which the formulas of EN 1991-1-2 "
+                    "Annex F and CIB W14 were derived for.")
+
+
+def design_fire(setup: FireSetup) -> DesignFire:
+    """A localised fire of EN 1991-1-2 Annex C as a design fire: the heat release of Annex E.4 (or the case's
+    table), each member's exposure at its position by :func:`member_exposure` (its gas temperature, or the
+    adiabatic surface temperature of its heat flux), alpha_c = 35 W/(m2 K) (C.(10)) and the code's
+    emissivities; the annex's scope (D, Q) enforced unless allow_out_of_scope."""
+    opts = setup.options
+    hr = setup.heat_release
+    fl = setup.fire_load
+    d = opts.get("diameter_m")
+    if d is None:
+        if fl is None or fl.fire_area_m2 is None:
+            raise InputError("fire.localised.diameter_m", None,
+                             "is missing; give it, or fire_load.fire_area_m2 (D of a circle of that area)")
+        d = equivalent_diameter_m(fl.fire_area_m2)
+    h = opts["ceiling_height_m"]
+    alpha_c = convection(setup, "alpha_c_natural")
+    eps = setup.emissivity_resultant
+    source = "table" if hr is not None else "EN 1991-1-2 E.4"
+    if hr is None:
+        from steelfire.models.fire import fireload, heatrelease
+
+        area = setup.compartment.floor_area_m2 if setup.compartment is not None else None
+        qfd, _ = fireload.design_density(fl, area, setup.code)
+        hr = heatrelease.annex_e_fire(qfd, fl.fire_area_m2, fl.heat_release_density_kW_m2,
+                                      heatrelease.growth_time_s(fl.growth))
+    oos = []
+    q_peak = float(hr.peak_heat_release_W)
+    for field, value, allowed in scope_violations(d, q_peak, setup.code):
+        if not setup.allow_out_of_scope:
+            raise OutOfScopeError(field, value, allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
+        oos.append(f"OUT OF SCOPE of EN 1991-1-2 Annex C: {field} = {value!r}; {allowed}")
+    positions = [(p["distance_m"], p["height_m"]) for p in setup.positions]
+    for i, (r, z) in enumerate(positions):
+        if z > h:
+            raise InputError(f"member[{i + 1}].position.height_m", z,
+                             f"must be <= the ceiling height above the fire source, {h:g} m")
+    distinct = sorted(set(positions))
+    column_of = {p: k for k, p in enumerate(distinct)}
+
+    def exposure(time_s):
+        q = hr.heat_release_W(time_s)
+        cols = [member_exposure(time_s, q, d, h, r, z, alpha_c, eps, allow_out_of_scope=True,
+                                code=setup.code).effective_gas_temperature_C for r, z in distinct]
+        return Exposure(gas_C=np.column_stack(cols), member_columns=[[column_of[p]] for p in positions],
+                        column_labels=[f"r = {r:g} m, z = {z:g} m" for r, z in distinct])
+
+    def gas(time_s):
+        return exposure(np.asarray(time_s, dtype=float)).gas_C.max(axis=1)
+
+    def series(time_s):
+        q = hr.heat_release_W(time_s)
+        return {"heat_release_MW": q / 1e6, "flame_length_m": flame_length_m(q, d)}
+
+    t_probe = np.linspace(0.0, setup.duration_min * 60.0, 2001)
+    q_probe = hr.heat_release_W(t_probe)
+    lf = float(np.max(flame_length_m(q_probe, d)))
+    values = {"diameter_m": d, "ceiling_height_m": h, "peak_heat_release_MW": q_peak / 1e6,
+              "time_of_peak_heat_release_min": float(t_probe[int(np.argmax(q_probe))] / 60.0),
+              "largest_flame_length_m": lf, "flame_reaches_ceiling": "yes" if lf >= h else "no",
+              "heat_release_source": source}
+    warnings = ["Localised fire (EN 1991-1-2 Annex C): each member's exposure follows steelfire's rule for its "
+                "position (plume axis within D/2, the ceiling jet beyond, the larger of the annex's flux and that "
+                "bound where the flame reaches the ceiling); a hot smoke layer and flame radiation to a member "
+                "beside the fire are not included: check them separately (EN 1991-1-2 3.3.2)."]
+    return DesignFire(curve="localised", gas_temperature_C=gas, alpha_c=alpha_c, cools=True,
+                      key_times_s=tuple(hr.key_times_s), values=values, quantities=QUANTITIES, warnings=warnings,
+                      out_of_scope=oos, equivalence=EQUIVALENCE_NOTE, exposure=exposure, series=series)

@@ -251,3 +251,113 @@ def family_gas_temperature_C(time_s, positions_m, length_m, width_m, ceiling_hei
         raise InputError("shares", shares, "must hold at least one fire size")
     t = as_times_s(time_s)
     return np.concatenate([f.gas_temperature_C(t, x) for f in fires], axis=1)
+
+
+# ---------------------------------------------------------------------------------------------------
+# the travelling fire as a design fire (the registry's "travelling" curve)
+
+from steelfire.models.fire.design import DesignFire, Exposure, FireSetup, Option, Quantity, convection  # noqa: E402
+
+#: What the travelling fire needs from the case, and its ``[fire.travelling]`` keys.
+NEEDS = ("fire_load", "positions")
+OPTIONS = (
+    Option("length_m", "m", 0.0, 2000.0, help="L, the floor's length along which the fire travels"),
+    Option("width_m", "m", 0.0, 2000.0, help="W, the floor's width the fire spans"),
+    Option("ceiling_height_m", "m", 0.0, 100.0, help="H, floor to ceiling"),
+    Option("near_field_C", "C", 20.0, 1500.0, required=False, default=NEAR_FIELD_MAX_C,
+           help="T_nf over the burning band (800-1200 C; default 1200 C, the hotter end)"),
+    Option("spread_rate_mm_s", "mm/s", 0.0, 1e4, required=False, many=True,
+           help="spread rates s to run (one fire each); default: the fire sizes"),
+    Option("fire_sizes", "-", 0.0, 1.0, required=False, many=True,
+           help="fire sizes as shares of the floor (one fire each); default 1, 2.5, 5, 10, 25, 50, 75, 100 %"),
+)
+#: The keys of a member's ``position`` table under a travelling fire.
+POSITION_KEYS = ("along_m",)
+
+QUANTITIES = (
+    Quantity("design_fire_load_MJ_m2", "design fire load density", "q_f,d", "MJ/m2", "EN 1991-1-2 E.(1)"),
+    Quantity("heat_release_density_kW_m2", "heat release rate density", "RHR_f", "kW/m2", "EN 1991-1-2 Table E.5"),
+    Quantity("burning_time_min", "burning time of a point of the floor", "t_b = q_f,d / RHR_f", "min",
+             "Stern-Gottfried and Rein 2012", digits=2),
+    Quantity("length_m", "floor length (direction of travel)", "L", "m", "case"),
+    Quantity("width_m", "floor width", "W", "m", "case"),
+    Quantity("ceiling_height_m", "ceiling height", "H", "m", "case"),
+    Quantity("near_field_C", "near-field temperature", "T_nf", "C", "Rackauskaite et al. 2015: 800-1200 C"),
+    Quantity("fire_family", "fires run (the worst governs each member)", "", "",
+             "Stern-Gottfried and Rein 2012; Rackauskaite et al. 2015"),
+    Quantity("longest_duration_min", "longest total duration of the family", "t_b + L / s", "min",
+             "Rackauskaite et al. 2015", digits=2),
+)
+
+EQUIVALENCE_NOTE = ("a travelling fire is not the fully developed fire of a small compartment, which the formulas "
+                    "of EN 1991-1-2 Annex F and CIB W14 were derived for.")
+
+
+def design_fire(setup: FireSetup) -> DesignFire:
+    """A family of travelling fires (one per fire size or spread rate) as a design fire: each member at its
+    position ``along_m`` is run in every fire of the family, and the worst governs it (Stern-Gottfried and
+    Rein 2012 ask for the worst of several sizes); near field at ``near_field_C``, far field by Alpert's
+    ceiling jet capped at it; alpha_c of a natural fire."""
+    from steelfire.models.fire import fireload
+
+    o = setup.options
+    fl = setup.fire_load
+    ln, w, h, tnf = o["length_m"], o["width_m"], o["ceiling_height_m"], o["near_field_C"]
+    qfd, _ = fireload.design_density(fl, ln * w, setup.code)
+    rhr = fl.heat_release_density_kW_m2
+    if rhr is None:
+        raise InputError("fire_load.heat_release_density_kW_m2", None,
+                         "is missing; a travelling fire needs RHR_f (EN 1991-1-2 Table E.5)")
+    if o.get("spread_rate_mm_s") is not None and o.get("fire_sizes") is not None:
+        raise InputError("fire.travelling.fire_sizes", o["fire_sizes"], "give fire_sizes or spread_rate_mm_s, not both")
+    oos = []
+    if not NEAR_FIELD_MIN_C <= tnf <= NEAR_FIELD_MAX_C:
+        if not setup.allow_out_of_scope:
+            raise OutOfScopeError("fire.travelling.near_field_C", tnf,
+                                  f"the travelling-fire methods use {NEAR_FIELD_MIN_C:g} to {NEAR_FIELD_MAX_C:g} C "
+                                  "(set analysis.allow_out_of_scope = true to compute anyway)")
+        oos.append(f"OUT OF SCOPE of the travelling-fire methods: near_field_C = {tnf:g}")
+    if o.get("spread_rate_mm_s") is not None:
+        fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, spread_rate_m_s=s * 1e-3, allow_out_of_scope=True)
+                 for s in o["spread_rate_mm_s"]]
+        labels = [f"spread {s:g} mm/s" for s in o["spread_rate_mm_s"]]
+    else:
+        shares = o.get("fire_sizes") or FIRE_SIZES
+        fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, share=a, allow_out_of_scope=True) for a in shares]
+        labels = [f"{a:.3g} of the floor ({a * 100:g} %)" for a in shares]
+    positions = [p["along_m"] for p in setup.positions]
+    for i, x in enumerate(positions):
+        if not 0.0 <= x <= ln:
+            raise InputError(f"member[{i + 1}].position.along_m", x, f"must lie on the floor, 0 to {ln:g} m")
+    distinct = sorted(set(positions))
+    where = {x: k for k, x in enumerate(distinct)}
+    n_p = len(distinct)
+
+    def exposure(time_s):
+        t = np.asarray(time_s, dtype=float)
+        gas = np.concatenate([f.gas_temperature_C(t, np.array(distinct)) for f in fires], axis=1)
+        return Exposure(gas_C=gas, member_columns=[[s * n_p + where[x] for s in range(len(fires))] for x in positions],
+                        column_labels=[f"{lab} at x = {x:g} m" for lab in labels for x in distinct],
+                        series={"fire_labels": labels})
+
+    def gas(time_s):
+        return exposure(time_s).gas_C.max(axis=1)
+
+    key = sorted({k for f in fires for k in f.key_times_s(distinct)})
+    longest = max(f.total_duration_s for f in fires)
+    warnings = []
+    if longest > setup.duration_min * 60.0:
+        short = [lab for lab, f in zip(labels, fires) if f.total_duration_s > setup.duration_min * 60.0]
+        warnings.append(f"Travelling fire: {', '.join(short)} ha{'s' if len(short) == 1 else 've'} not burnt out "
+                        f"at duration_min = {setup.duration_min:g} min (longest {longest / 60:.0f} min): the members "
+                        "far along the floor may not have seen the fire yet; extend fire.duration_min.")
+    warnings.append("Travelling fire: near field and far field as published (Stern-Gottfried and Rein 2012, "
+                    "Rackauskaite et al. 2015, from memory); the gas returns to 20 C at once where the fire has "
+                    "passed (no cooling phase).")
+    values = {"design_fire_load_MJ_m2": qfd, "heat_release_density_kW_m2": rhr,
+              "burning_time_min": burning_time_s(qfd, rhr) / 60.0, "length_m": ln, "width_m": w,
+              "ceiling_height_m": h, "near_field_C": tnf, "fire_family": "; ".join(labels),
+              "longest_duration_min": longest / 60.0}
+    return DesignFire(curve="travelling", gas_temperature_C=gas, alpha_c=convection(setup, "alpha_c_natural"),
+                      cools=True, key_times_s=tuple(key), values=values, quantities=QUANTITIES, warnings=warnings,
+                      out_of_scope=oos, equivalence=EQUIVALENCE_NOTE, exposure=exposure)
