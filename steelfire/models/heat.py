@@ -404,6 +404,34 @@ def _bare_chunks(time_s, gas_C, rad4, fire, ksh_amv, alpha_c, eps_res, rho_a, th
     return peak, peak_t, cross, at_q, last, hist
 
 
+#: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
+COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
+                  "(about {s} s) ...")
+_ANNOUNCED = set()
+
+
+def _announce_compile(kernel, args, seconds):
+    """Tell the user, once per kernel and process, when a kernel has to be compiled (no cached machine
+    code for these argument types): the first run after installing pauses for many seconds otherwise."""
+    if kernel.signatures or kernel in _ANNOUNCED:
+        return
+    try:
+        from numba import typeof
+
+        types_ = tuple(typeof(a) for a in args)
+        index = kernel._cache._cache_file._load_index()   # numba's on-disk index: (types, target) -> file
+        if any(key[0] == types_ for key in index):
+            return
+    except Exception:  # the cache layout is numba's own: say nothing rather than fail
+        return
+    import sys
+
+    _ANNOUNCED.add(kernel)
+    if not _ANNOUNCED - {kernel}:
+        sys.stderr.write(COMPILE_NOTICE.format(s=seconds) + "\n")
+        sys.stderr.flush()
+
+
 def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_kg_m3: float,
         query_idx=None, keep_history: bool = False) -> ThermalRun:
     """Steel temperatures of ``rows`` (bare by EN 1993-1-2 eq (4.25), protected by eq (4.27)), each in
@@ -442,16 +470,18 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
         if gi == 0:
             rad4 = (rad[:, fire[0]] if one else rad) + KELVIN
             rad4 = np.ascontiguousarray(rad4 * rad4 * rad4 * rad4)
-            res = _bare_chunks(time_s, g, rad4, fire, r.section_factor_per_m, r.alpha_c.astype(float),
-                               float(emissivity_resultant), rho_a, thr, q, keep_history, n_threads,
-                               SPECIFIC_HEAT_TERMS)
+            args = (time_s, g, rad4, fire, r.section_factor_per_m, r.alpha_c.astype(float),
+                    float(emissivity_resultant), rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS)
+            _announce_compile(_bare_chunks, args, 10)
+            res = _bare_chunks(*args)
         else:
             k = 1 if gi == 1 else int(lam_n[idx].max())
-            res = _protected_chunks(time_s, g, fire, r.section_factor_per_m, r.thickness_m, r.density,
-                                    r.specific_heat, np.ascontiguousarray(r.conductivity_C[:, :k]),
-                                    np.ascontiguousarray(r.conductivity[:, :k]), r.conductivity_n.astype(np.int64),
-                                    r.moisture_delay_s, rho_a, thr, q, keep_history, n_threads,
-                                    SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
+            args = (time_s, g, fire, r.section_factor_per_m, r.thickness_m, r.density, r.specific_heat,
+                    np.ascontiguousarray(r.conductivity_C[:, :k]), np.ascontiguousarray(r.conductivity[:, :k]),
+                    r.conductivity_n.astype(np.int64), r.moisture_delay_s, rho_a, thr, q, keep_history, n_threads,
+                    SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
+            _announce_compile(_protected_chunks, args, 15)
+            res = _protected_chunks(*args)
         for a, b in zip(out[:5], res[:5]):
             a[idx] = b
         if keep_history:
