@@ -1,0 +1,236 @@
+"""The terminal summary (steelfire.outputs.terminal.render) on the bundled cases, run in-process.
+
+The documents come from the CLI itself (``steelfire.cli.main([..., "--json"])`` with stdout captured),
+so the summary is tested on what the command line prints as JSON. Check values are the tool's own
+verdicts and the layout rules of the summary (common practice, no source) unless a line says
+otherwise.
+"""
+
+import contextlib
+import copy
+import io
+import json
+import re
+from pathlib import Path
+
+import pytest
+
+from steelfire.cli import main
+from steelfire.outputs import present
+from steelfire.outputs.terminal import WIDTH, render
+
+ROOT = Path(__file__).resolve().parents[1]
+CASES = ROOT / "cases"
+#: The bundled cases the check command runs (office_variability is for the sampling command).
+STEMS = ("archive_room", "atrium_localised", "office_bay", "office_floor", "open_office_travelling", "plant_room",
+         "retail_measured", "warehouse_standard")
+
+
+def cli_document(*argv):
+    """The --json document of ``steelfire *argv``, run in this process."""
+    raw = io.BytesIO()
+    out = io.TextIOWrapper(raw, encoding="utf-8")  # the CLI writes the JSON bytes to stdout.buffer
+    with contextlib.redirect_stdout(out):
+        code = main([*argv, "--json"])
+    out.flush()
+    assert code in (0, 1), code
+    return json.loads(raw.getvalue().decode("utf-8"))
+
+
+@pytest.fixture(scope="module")
+def docs():
+    return {stem: cli_document("check", str(CASES / f"{stem}.toml")) for stem in STEMS}
+
+
+@pytest.fixture(scope="module")
+def sized():
+    return cli_document("size", str(CASES / "office_bay.toml"))
+
+
+def flat(text):
+    """The summary with its wrapped lines joined (whitespace runs as one space)."""
+    return " ".join(text.split())
+
+
+def widths(text):
+    return [len(line) for line in text.splitlines()]
+
+
+# ----------------------------------------------------------------------------------------------
+# layout
+
+
+def test_every_bundled_case_fits_100_columns(docs, sized):
+    assert WIDTH == 100  # the default width the summary is fitted to (common practice, no source)
+    for stem, doc in docs.items():
+        out = render(doc)
+        assert max(widths(out)) <= 100, stem
+        assert out.startswith(f"steelfire check: {doc['title'][:40]}")
+    out = render(sized, sizing=True, out_dir="/tmp/some/where/out")
+    assert max(widths(out)) <= 100
+
+
+def test_long_names_are_cut_to_fit_and_whole_in_wide_mode(docs):
+    doc = copy.deepcopy(docs["office_bay"])
+    long = "Level 3 gridline B between 4 and 5, secondary beam carrying the plant plinth " * 2
+    doc["title"] = "T" * 250
+    doc["members"][0]["name"] = long + "(west)"
+    doc["members"][1]["name"] = long + "(east)"
+    doc["members"][0]["protection"] = "a-protection-material-name-" * 4
+    doc["warnings"].append(f"{long}(west): a member warning of its own.")
+    out = render(doc)
+    assert max(widths(out)) <= 100
+    # names are cut in the middle, so the two members stay told apart by their ends
+    assert "(west)" in out and "(east)" in out
+    wide = render(doc, wide=True)
+    assert long + "(west)" in wide and max(widths(wide)) > 100
+
+
+def test_plain_word_headers_with_units(docs):
+    out = render(docs["archive_room"])
+    for head in ("peak steel", "critical", "margin", "[C]", "required", "[min]", "thickness", "[mm]",
+                 "standard fire", "to critical [min]", "equal steel", "Annex F", "CIB W14"):
+        assert head in out, head
+    for code in ("standard_period", "theta_cr", "R std", "d_p", "burnout_mm", "equal_temperature_min"):
+        assert code not in out, code
+
+
+def test_design_fire_in_two_or_three_lines(docs):
+    for stem, doc in docs.items():
+        lines = render(doc).splitlines()
+        i = next(k for k, line in enumerate(lines) if line.startswith("Design fire:"))
+        j = lines.index("", i)
+        assert 1 <= j - i <= 3, (stem, lines[i:j])
+    # archive_room: parametric, ventilation-controlled, peak 963.5 C (the tool's own document value)
+    head = next(line for line in render(docs["archive_room"]).splitlines() if line.startswith("Design fire:"))
+    assert "parametric" in head and "963.5 C" in head and "ventilation-controlled" in head
+
+
+def test_numbers_rounded_for_reading(docs):
+    doc = docs["office_bay"]
+    out = render(doc)
+    # the document holds O = 0.0870253 and b = 1429.17; shown to 4 significant figures
+    assert doc["fire"]["opening_factor_m05"] == 0.0870253 and doc["fire"]["thermal_inertia"] == 1429.17
+    assert "0.0870253" not in out and "1429.17" not in out
+    assert "O = 0.08703 m^0.5" in out and "b = 1429 J/(m2 s^0.5 K)" in out
+
+
+def test_rounding_helpers():
+    # hand calculation: 0.0870253 to 4 significant figures is 0.08703; 1429.17 is 1429; 25000.7 is
+    # 25000 (no exponent); temperatures and times to 0.1; a required thickness rounds up
+    assert present.significant(0.0870253) == "0.08703"
+    assert present.significant(1429.17) == "1429"
+    assert present.significant(25000.7) == "25000"
+    assert present.significant(1.0) == "1" and present.significant(0.000123456) == "0.0001235"
+    assert present.fixed(642.14) == "642.1" and present.fixed(-0.04) == "0.0"
+    assert present.ceiling(18.01) == "18.1" and present.ceiling(18.0) == "18.0"
+
+
+# ----------------------------------------------------------------------------------------------
+# warnings, unconservative routes, the closing list
+
+
+def test_warnings_grouped_one_line_per_kind(docs):
+    doc = docs["office_floor"]
+    per_member = [w for w in doc["warnings"] if "is assessed for the standard fire only" in w]
+    assert len(per_member) >= 5  # office_floor: one such warning per coated member
+    names = [w.split(":", 1)[0] for w in per_member]
+    out = render(doc, wide=True)
+    lines = [line for line in out.splitlines() if "is assessed for the standard fire only" in line]
+    assert len(lines) == 1
+    block = out[out.index(lines[0]) - 200:]
+    block = block[: block.index("[")]
+    for n in names:
+        assert n in block
+    assert f"[{len(per_member)} warnings]" in out
+
+
+def test_exact_repeats_are_one_warning(docs):
+    doc = copy.deepcopy(docs["plant_room"])
+    doc["warnings"] = doc["warnings"] + doc["warnings"][:3]
+    out = render(doc)
+    for w in doc["warnings"][:3]:
+        assert out.count(w[:60]) == 1
+
+
+def test_grouping_reads_truncated_name_lists():
+    names = [f"B{i:02d}" for i in range(12)]
+    doc = {"members": [{"name": n} for n in names],
+           "warnings": ["Something for B00, B01 and 10 more: look.", "B02: protection x is assessed for the standard fire.",
+                        "B03: protection x is assessed for the standard fire."]}
+    g = present.group_warnings(doc)
+    assert [x.count for x in g] == [1, 2]
+    assert g[0].members == ["B00", "B01"] and g[0].more == 10
+    assert g[1].text() == "B02, B03: protection x is assessed for the standard fire."
+
+
+def test_unconservative_only_where_it_changes_a_conclusion(docs, sized):
+    # office_bay: every member has an Annex F time flagged > 10 % below the direct one, yet every
+    # route agrees with the direct check on the period and the member: nothing to call unconservative
+    doc = docs["office_bay"]
+    assert all(m["equivalence"]["unconservative"] for m in doc["members"])
+    out = render(doc)
+    assert "unconservative" not in out
+    assert "no verdict changes" in flat(out)
+    assert "unconservative" not in render(sized, sizing=True)
+    # archive_room: Annex F 102.7 min is within R120 while the equal-temperature times (136.4, 123.1,
+    # 167.7 min) are not; for T1-HANGER the routes accept a member that fails the design fire
+    out = render(docs["archive_room"])
+    assert "unconservative here" in out
+    for name in ("B1-ARC-01", "B1-ARC-02", "C1-B2", "T1-HANGER"):
+        assert re.search(rf"^  {re.escape(name)}: Annex F time 102\.7 min is within", out, re.M), name
+    assert "102.7*" in out
+
+
+def test_closing_list_names_the_members_that_fail_or_fall_short(docs):
+    for stem, doc in docs.items():
+        out = render(doc)
+        bad = [m["name"] for m in doc["members"] if m["passes"] is False or m["meets_required_period"] is False]
+        if not bad:
+            assert "Members that fail or fall short" not in out, stem
+            continue
+        tail = out[out.index("Members that fail or fall short:"):]
+        tail = tail[: tail.index("\n\n")]
+        listed = re.findall(r"^  - (.+?): ", tail, re.M)
+        assert listed == bad, stem
+    # archive_room: B1-ARC-02 fails the design fire (684.0 C > 554.3 C) and reaches critical after
+    # 86.7 min of standard fire, short of R120 (the tool's own document values)
+    out = render(docs["archive_room"])
+    assert "B1-ARC-02: peak steel 684.0 C exceeds the critical 554.3 C in the design fire; reaches critical" in out
+    assert "86.7 min of standard fire, short of the required 120 min" in flat(out)
+
+
+def test_sizing_shows_specified_and_proposed_designs(sized):
+    out = render(sized, sizing=True)
+    assert "Specified design: 4 of 4 members" in out and "Proposed design (chosen thicknesses): 4 of 4" in out
+    for head in ("specified", "needed for", "period [mm]", "design fire [mm]", "chosen", "change"):
+        assert head in out
+    assert "iterations" not in out and "bisection" not in out
+    # B3-01: specified 20 mm, chosen 18.5 mm -> change -1.5 mm (hand calculation: 18.5 - 20)
+    row = next(line for line in out.splitlines() if line.startswith("B3-01") and "meets" in line and "-1.5" in line)
+    assert " 20 " in row and "18.5" in row
+    doc = copy.deepcopy(sized)
+    s = doc["members"][0]["sizing"]
+    s["given_mm"] = 10.0  # below the 18.09 mm the standard period needs
+    out = render(doc, sizing=True)
+    assert "Specified design: 3 of 4 members" in out
+    tail = out[out.index("Members that fail or fall short:"):]
+    assert "B3-01: specified design: specified 10 mm is below the 18.1 mm needed for the standard period" in tail
+    assert "+8.5" in out  # hand calculation: chosen 18.5 - specified 10 = +8.5 mm
+
+
+def test_cautions_short_and_files_line(docs):
+    doc = docs["warehouse_standard"]
+    out = render(doc, out_dir="OUTDIR")
+    cau = flat(out[out.index("Cautions:"):])
+    assert "competent fire engineer" in cau and "(EN 1991-1-2" not in cau
+    assert out.rstrip().splitlines()[-1] == "Wrote OUTDIR."  # no file list in a bare --json document
+    full = {**doc, "report": {"files": ["results.json", "members.csv", "report.html"]}}
+    assert "Wrote OUTDIR: results.json, report.html, members.csv" in render(full, out_dir="OUTDIR")
+
+
+def test_out_of_scope_banner(docs):
+    doc = copy.deepcopy(docs["office_bay"])
+    doc["out_of_scope"] = ["opening factor O = 0.25 m^0.5 above 0.2 (EN 1991-1-2 A.(2))"]
+    out = render(doc)
+    assert "OUTSIDE THE SCOPE" in out and "0.25 m^0.5" in out
