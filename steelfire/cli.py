@@ -38,6 +38,22 @@ def _parser():
         q.add_argument("--out", default=None, metavar="DIR",
                        help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
                             "self-contained report.html into DIR (created if missing)")
+    s = sub.add_parser("sample", help="fire severity as a distribution: sample the compartment's [variability], "
+                                      "probability that each member exceeds its critical temperature")
+    s.add_argument("case", help="case file (TOML) with a [variability] table")
+    s.add_argument("--json", action="store_true", help="print the result document with its variability section")
+    s.add_argument("--time-step-s", default=None, metavar="S", help="time step [s] (overrides analysis.time_step_s)")
+    s.add_argument("--out", default=None, metavar="DIR", help="also write the deterministic check's files, the "
+                   "sampled inputs and per-member statistics (CSV) and their figures into DIR")
+    s.add_argument("--fires", default=None, metavar="N", help="number of sampled fires (overrides variability.fires)")
+    s.add_argument("--seed", default=None, metavar="S", help="seed (overrides variability.seed); the same seed "
+                   "gives the same answer whatever the workers")
+    where = s.add_mutually_exclusive_group()
+    where.add_argument("--workers", default=None, metavar="K", help="run on a local dask cluster of K processes")
+    where.add_argument("--scheduler", default=None, metavar="ADDRESS",
+                       help="run on an existing dask cluster (e.g. tcp://10.0.0.5:8786)")
+    s.add_argument("--size", action="store_true", help="least supplied thickness per member whose probability "
+                   "of exceeding its critical temperature is below variability.target_probability")
     z.add_argument("--csv", default=None, metavar="OUT",
                    help="write the protection schedule (one row per member, chosen thickness) to the CSV file OUT")
     return p
@@ -180,6 +196,68 @@ def _run_size(args) -> int:
     return EXIT_OK if all(m.sizing["achievable"] for m in result.members) else EXIT_FAIL
 
 
+def _integer(text, field, lo=0):
+    from steelfire.errors import InputError
+
+    if text is None:
+        return None
+    try:
+        v = int(text)
+    except ValueError:
+        raise InputError(field, text, f"must be a whole number >= {lo}") from None
+    if v < lo:
+        raise InputError(field, text, f"must be a whole number >= {lo}")
+    return v
+
+
+def _run_sample(args) -> int:
+    """``steelfire sample``: the deterministic check of the case, and beside it the statistics over the
+    sampled fires (chain.sampling). Exit 1 where a member fails the check or, with a target probability,
+    exceeds its critical temperature more often than that."""
+    from steelfire.chain import sampling
+    from steelfire.chain.analysis import analyse
+    from steelfire.outputs import document
+
+    fires = _integer(args.fires, "--fires", 1)
+    seed = _integer(args.seed, "--seed", 0)
+    workers = _integer(args.workers, "--workers", 1)
+    case = _load(args)
+    result = analyse(case, histories=args.out is not None)
+    run = sampling.run(case, fires=fires, seed=seed, workers=workers, scheduler=args.scheduler, size=args.size,
+                       progress=False if args.json else None)
+    section = run.to_dict()
+    _write(result, args, case, "sample")
+    if args.out is not None:
+        from steelfire.outputs import sampling as sampling_out
+
+        sampling_out.write(run, args.out)
+    if args.json:
+        doc = document.build(result)
+        doc["variability"] = section
+        sys.stdout.buffer.write(document.dumps(doc) + b"\n")
+        sys.stdout.flush()
+    else:
+        sys.stdout.write(render_table(result) + "\n\n" + _sample_summary(section) + "\n")
+    target = section.get("target_probability")
+    too_likely = target is not None and any(
+        m["exceedance_probability"] > target for m in section["members"])
+    return EXIT_OK if (result.all_ok and not too_likely) else EXIT_FAIL
+
+
+def _sample_summary(section) -> str:
+    """The sampled fires in a few lines per member."""
+    lines = [f"Sampled fires: {section['fires']} ({section['method']}, seed {section['seed']}); "
+             f"outside Annex A's scope: {section['out_of_scope_fires']}."]
+    frac = section.get("target_fractile")
+    head = f"{'member':<24} {'P(exceed)':>10} {'95 % interval':>19}  " + (f"period covering the {frac:g} fractile" if frac else "")
+    lines.append(head)
+    for m in section["members"]:
+        lo, hi = m["exceedance_interval"]
+        periods = ", ".join(f"{r}: {p or '-'}" for r, p in (m.get("period_covering_fractile") or {}).items())
+        lines.append(f"{m['name'][:24]:<24} {m['exceedance_probability']:>10.4f} {f'[{lo:.4f}, {hi:.4f}]':>19}  {periods}")
+    return "\n".join(lines)
+
+
 def check_csv_target(path, case_path=None):
     """--csv must name a file in an existing, writable folder (not a folder), and not an input."""
     import os
@@ -244,6 +322,8 @@ def main(argv=None) -> int:
             return _run_check(args)
         if args.command == "size":
             return _run_size(args)
+        if args.command == "sample":
+            return _run_sample(args)
     except InputError as exc:
         sys.stderr.write(f"steelfire: error: {exc}\n")
         return EXIT_INPUT

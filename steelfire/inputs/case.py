@@ -46,7 +46,7 @@ INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
 # The keys each table may hold. A key outside its list is refused before anything else is read, so that
 # a typo (``thicknes_mm``) is reported as itself, not as the required key it hides.
 TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file",
-            "record")
+            "record", "variability")
 RECORD_KEYS = ("project", "job_number", "revision", "prepared_by", "checked_by", "date", "notes")
 FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient", "heat_release_file") + tuple(
     c for c in fire_models.MODELS if fire_models.options(c))
@@ -124,6 +124,7 @@ class Case:
     inputs: tuple = ()
     member_places: MemberPlaces | None = field(default=None, compare=False, repr=False)
     record: dict = field(default_factory=dict)
+    variability: object = None   # the parsed [variability] table (steelfire.models.variability), for `sample`
 
     def label(self, i: int) -> str:
         """The error-message name of member ``i``."""
@@ -162,6 +163,11 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     fire = _read_fire(TableReader(top.raw("fire"), "fire", keys=FIRE_KEYS) if top.has("fire") else None, base)
     analysis = _read_analysis(top.raw("analysis", {}))
     record = _read_record(top.raw("record", {}))
+    variability = None
+    if top.has("variability"):
+        from steelfire.models.variability import parse_variability  # scipy.stats: only for cases that sample
+
+        variability = parse_variability(top.raw("variability"))
     compartment = _read_compartment(top.raw("compartment")) if top.has("compartment") else None
     fire_load = _read_fire_load(top.raw("fire_load")) if top.has("fire_load") else None
     for need in fire_models.needs(fire.curve):
@@ -219,7 +225,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
     return Case(title=title, fire=fire, analysis=analysis, members=members, materials=materials, code=code,
                 compartment=compartment, fire_load=fire_load, source=Path(source) if source else None,
                 code_overrides={k: float(v) for k, v in code_data.items()}, inputs=tuple(inputs),
-                member_places=places, record=record)
+                member_places=places, record=record, variability=variability)
 
 
 def _check_positions(fire, members, places):
