@@ -40,7 +40,13 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     fire = fires.design_fire(case)
     sev = fires.severity(case)
     warnings = list(fire.warnings)
-    t = fires.time_grid(case.fire.duration_min * 60.0, case.analysis.time_step_s, fire.key_times_s)
+    required_s = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in members])
+    judged_at = ~np.isnan(required_s) if fire.nominal else np.zeros(len(members), dtype=bool)
+    duration_s = case.fire.duration_min * 60.0
+    if np.any(judged_at):   # a nominal fire: each member is judged at its own required period
+        duration_s = max(duration_s, float(np.nanmax(required_s)))
+    t = fires.time_grid(duration_s, case.analysis.time_step_s,
+                        tuple(fire.key_times_s) + tuple(required_s[judged_at]))
     if fire.exposure is not None:   # a fire that differs from member to member
         ex = fire.exposure(t)
         exposures = thermal.Exposures(t, ex.gas_C, ex.member_columns, ex.column_labels)
@@ -57,9 +63,15 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     alpha_std = code["alpha_c_standard"]
     thermal.check_bare_step(case, cols, [(t, g, fire.alpha_c, fire.nominal, "design fire"),
                                          (ts, gs, alpha_std, True, "standard fire of the times to critical")])
+    query = np.unique(np.searchsorted(t, required_s[judged_at] - 1e-6)) if np.any(judged_at) else None
     design, governing = exposures.run(code, cols, keep_history=histories, alpha_c=fire.alpha_c,
-                                      nominal_fire=fire.nominal)
-    peak = design.peak_C
+                                      nominal_fire=fire.nominal, query_idx=query)
+    peak = design.peak_C.copy()
+    peak_time_s = design.peak_time_s.copy()
+    if query is not None:   # the steel temperature at the required period (heating only: the largest so far)
+        at = np.searchsorted(query, np.searchsorted(t, required_s[judged_at] - 1e-6))
+        peak[judged_at] = design.at_query_C[judged_at, at]
+        peak_time_s[judged_at] = t[query[at]]
     # the standard fire (EN 1991-1-2 3.2.1) for times to critical and for the equal-steel-temperature
     # equivalence: when the same member reaches its design-fire peak (each member twice, one threshold each)
     n = len(members)
@@ -85,7 +97,7 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
          "section_factor_per_m": cols.section_factor_per_m, "protection": [m.protection for m in members],
          "thickness_mm": [m.thickness_mm for m in members], "critical_temperature_C": crit,
          "critical_temperature_source": source, "peak_steel_temperature_C": peak,
-         "time_of_peak_steel_min": design.peak_time_s / 60.0,
+         "time_of_peak_steel_min": peak_time_s / 60.0,
          "standard_fire_time_to_critical_min": cross / 60.0,  # NaN: not within the horizon
          "required_minutes": [m.required_minutes for m in members],
          "shadow_factor": [None if m.protection is not None else float(k)

@@ -69,6 +69,9 @@ class Problem:
         self.design = design
         self.code = code
         self.kernel_calls = 0
+        # under a nominal design fire a member with a required period is judged at that period only
+        self.burnout_applies = np.ones(len(self.members), dtype=bool) if not (design is not None and design.nominal) \
+            else np.isnan(self.required_s)
 
     def __len__(self):
         return len(self.members)
@@ -90,9 +93,15 @@ class Problem:
         return np.isfinite(peak) & (np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9))
 
     def burnout_passes(self, idx, d_m):
-        """Peak over the whole design fire at most the critical temperature."""
-        peak = self._run(self.design, idx, d_m, np.full(len(idx), np.inf)).peak_C
-        return np.isfinite(peak) & (peak <= self.critical_C[idx])
+        """Peak over the whole design fire at most the critical temperature (true where the criterion does
+        not apply: a member with a required period under a nominal design fire)."""
+        idx = np.asarray(idx)
+        ok = np.ones(len(idx), dtype=bool)
+        use = self.burnout_applies[idx]
+        if use.any():
+            peak = self._run(self.design, idx[use], np.asarray(d_m, dtype=float)[use], np.full(int(use.sum()), np.inf)).peak_C
+            ok[use] = np.isfinite(peak) & (peak <= self.critical_C[idx[use]])
+        return ok
 
     def passes(self, idx, d_m):
         """Both criteria that apply, at thicknesses ``d_m`` of the members ``idx``."""
@@ -293,7 +302,7 @@ def size_members(case):
         for j, i in enumerate(prot):
             has_std = not np.isnan(req[j])
             std_v = float(a_mm[j]) if has_std and a.achievable[j] else None
-            burn_v = float(b_mm[j]) if b.achievable[j] else None
+            burn_v = float(b_mm[j]) if (b.achievable[j] and p.burnout_applies[j]) else None
             if ok[j]:
                 governing = "standard_period" if (std_v is not None and (burn_v is None or std_v >= burn_v)) \
                     else "burnout"
@@ -339,13 +348,21 @@ def size(case, histories: bool = True):
         else:
             members.append(m)
     result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
-    for r, s, m in zip(result.members, sized, case.members):
-        s["given_mm"] = m.thickness_mm
+    specified = None
+    if all(m.thickness_mm is not None for m in case.members if m.protected):
+        specified = analyse(case, histories=False).table.ok()   # the design as specified, for comparison
+    for j, (r, s, m) in enumerate(zip(result.members, sized, case.members)):
+        s["specified_mm"] = m.thickness_mm
+        s["specified_ok"] = None if specified is None else bool(specified[j])
+        s.pop("iterations", None)
         if s["achievable"] is None:  # bare member
             ok = r.ok
             s.update(achievable=ok, chosen_mm=0.0 if ok else None,
                      note="bare steel passes: no protection needed" if ok else
                      "bare steel fails; name a protection material (protection = ...) to size it")
+        d0, d1 = s["specified_mm"], s["chosen_mm"]
+        s["change"] = (None if d0 is None or d1 is None else
+                       "increase" if d1 > d0 + 1e-9 else "saving" if d1 < d0 - 1e-9 else "none")
     result.table.sizing = sized
     result.command = "size"
     not_ok = [r.name for r, s in zip(result.members, sized) if not s["achievable"]]

@@ -32,7 +32,7 @@ class MemberColumns:
         m_rho, m_cp, m_lam20, m_moist = np.ones(n_mat), np.ones(n_mat), np.ones(n_mat), np.zeros(n_mat)
         m_T, m_V, m_N = np.zeros((n_mat, k)), np.ones((n_mat, k)), np.ones(n_mat, dtype=np.int64)
         for r, mt in enumerate(mats):
-            m_rho[r], m_cp[r], m_moist[r], m_lam20[r] = (mt.density, mt.specific_heat, mt.moisture_percent,
+            m_rho[r], m_cp[r], m_moist[r], m_lam20[r] = (mt.density, mt.specific_heat, mt.credited_moisture_percent,
                                                          mt.conductivity_at_20C)
             tab = mt.conductivity_table
             m_N[r] = len(tab)
@@ -149,12 +149,12 @@ class Exposures:
                          thresholds_C=np.broadcast_to(thresholds, (len(select),))[which] if np.ndim(thresholds)
                          else thresholds, **kw), which, counts
 
-    def run(self, code, cols: MemberColumns, select=None, keep_history=False, **kw):
+    def run(self, code, cols: MemberColumns, select=None, keep_history=False, query_idx=None, **kw):
         """The members ``select`` (all if None) through the kernels in every column they see, reduced to one
         result per member: the row with the highest peak governs (its peak, time, last step, history)."""
         select = np.arange(len(cols)) if select is None else np.asarray(select, dtype=np.int64)
         rows, which, counts = self.rows(cols, select, **kw)
-        r = run(code, self.time_s, self.gas_C, rows, keep_history=keep_history)
+        r = run(code, self.time_s, self.gas_C, rows, keep_history=keep_history, query_idx=query_idx)
         if np.all(counts == 1):
             return r, rows.fire
         starts = np.concatenate([[0], np.cumsum(counts)[:-1]])

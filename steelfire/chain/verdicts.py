@@ -203,6 +203,12 @@ def member_warnings(case, fire, cols, peak, last, rising):
         if m.protection in assessed:
             out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
                                        float(peak[i]), fire.cools)
+    uncredited = sorted({m.protection for m in members if m.protection is not None
+                         and case.materials[m.protection].moisture_percent > 0
+                         and case.materials[m.protection].moisture_delay_basis != "tests"})
+    if uncredited:
+        out.append(f"Moisture delay not credited for {', '.join(uncredited)}: EN 1993-1-2 4.2.5.2(2) takes it from tests "
+                   "to EN 13381-4; set moisture_delay_basis = \"tests\" for a material whose assessment gives it.")
     mixed = [m.name for m in members if m.protection is None and m.i_section]
     if mixed and not fire.nominal:
         out.append(f"Shadow factor for {names_text(mixed)}: eq (4.26b) in the design fire, eq (4.26a) (0.9 times) "

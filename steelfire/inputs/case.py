@@ -57,7 +57,7 @@ OPENING_KEYS = ("width_m", "height_m", "count")
 SURFACE_KEYS = ("area_m2", "layers")
 LAYER_KEYS = ("thickness_m", "density", "conductivity", "specific_heat")
 FIRE_LOAD_KEYS = ("characteristic_MJ_m2", "design_MJ_m2", "combustion_factor", "area_factor", "occupancy_factor",
-                  "measures_factor", "growth", "heat_release_density_kW_m2", "fire_area_m2")
+                  "measures_factor", "growth", "heat_release_density_kW_m2", "fire_area_m2", "occupancy", "measures")
 
 
 @dataclass(frozen=True)
@@ -169,7 +169,7 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
 
         variability = parse_variability(top.raw("variability"))
     compartment = _read_compartment(top.raw("compartment")) if top.has("compartment") else None
-    fire_load = _read_fire_load(top.raw("fire_load")) if top.has("fire_load") else None
+    fire_load = _read_fire_load(top.raw("fire_load"), code) if top.has("fire_load") else None
     for need in fire_models.needs(fire.curve):
         if need == "compartment" and compartment is None:
             raise InputError("compartment", None, f"is missing; the {fire.curve} curve needs the compartment")
@@ -456,10 +456,22 @@ def _read_compartment(data) -> Compartment:
                        thermal_inertia=b, surfaces=tuple(surfaces), roof_opening_area_m2=ah)
 
 
-def _read_fire_load(data) -> FireLoad:
+def _read_fire_load(data, code) -> FireLoad:
+    """The ``[fire_load]`` table. Nothing that changes the design fire load is assumed: the growth rate, the
+    occupancy factor delta_q2 and the fire-fighting measures (delta_n, as their product ``measures_factor``
+    or as the individual measures of Table E.2 in ``[fire_load.measures]``) must be given, or come from an
+    ``occupancy`` preset (EN 1991-1-2 Tables E.1, E.4, E.5) which the outputs show as such."""
+    from steelfire.models.fire.fireload import MEASURES, NORMAL_MEASURES, OCCUPANCIES, measures_factor
+
     t = TableReader(data, "fire_load", keys=FIRE_LOAD_KEYS)
+    occupancy = t.string("occupancy", required=False, choices=tuple(OCCUPANCIES))
+    preset = OCCUPANCIES.get(occupancy, {})
+    from_preset = []
     qk = t.number("characteristic_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
     qd = t.number("design_MJ_m2", "MJ/m2", required=False, lo=0.0, lo_open=True, hi=20000.0)
+    if qk is None and qd is None and "characteristic_MJ_m2" in preset:
+        qk = preset["characteristic_MJ_m2"]
+        from_preset.append("characteristic_MJ_m2")
     if (qk is None) == (qd is None):
         raise InputError("fire_load.characteristic_MJ_m2", qk,
                          "give characteristic_MJ_m2 or design_MJ_m2, exactly one of the two")
@@ -471,17 +483,57 @@ def _read_fire_load(data) -> FireLoad:
         area_factor = "auto"
     else:
         area_factor = t.number("area_factor", "-", lo=0.0, lo_open=True, hi=5.0)
-    d2 = t.number("occupancy_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
-    dn = t.number("measures_factor", "-", required=False, default=1.0, lo=0.0, lo_open=True, hi=5.0)
-    growth = t.string("growth", required=False, default="medium", choices=GROWTHS)
+    d2 = t.number("occupancy_factor", "-", required=False, lo=0.0, lo_open=True, hi=5.0)
+    if d2 is None and "occupancy_factor" in preset and qd is None:
+        d2 = preset["occupancy_factor"]
+        from_preset.append("occupancy_factor")
+    dn = t.number("measures_factor", "-", required=False, lo=0.0, lo_open=True, hi=5.0)
+    measures = t.raw("measures")
+    growth = t.string("growth", required=False, choices=GROWTHS)
+    if growth is None and "growth" in preset:
+        growth = preset["growth"]
+        from_preset.append("growth")
+    if growth is None:
+        raise InputError("fire_load.growth", None, "is missing; one of slow, medium, fast (EN 1991-1-2 Table E.5; "
+                         "library, shopping centre, theatre: fast), or give occupancy = " + " | ".join(OCCUPANCIES))
     rhr = t.number("heat_release_density_kW_m2", "kW/m2", required=False, lo=0.0, lo_open=True, hi=10000.0)
+    if rhr is None and "heat_release_density_kW_m2" in preset:
+        rhr = preset["heat_release_density_kW_m2"]
+        from_preset.append("heat_release_density_kW_m2")
     a_fi = t.number("fire_area_m2", "m2", required=False, lo=0.0, lo_open=True, hi=1e6)
     t.done()
     if qd is not None:
-        for key in ("combustion_factor", "area_factor", "occupancy_factor", "measures_factor"):
+        for key in ("combustion_factor", "area_factor", "occupancy_factor", "measures_factor", "measures"):
             if key in data:
                 raise InputError(f"fire_load.{key}", data[key],
                                  "is not used with design_MJ_m2 (already a design value); remove it")
+    else:
+        if d2 is None:
+            raise InputError("fire_load.occupancy_factor", None,
+                             "is missing; delta_q2 of EN 1991-1-2 Table E.1 (offices 1.0), or an occupancy preset "
+                             "that Table E.1 names (dwelling, hotel_room, office)")
+        if measures is not None and dn is not None:
+            raise InputError("fire_load.measures_factor", dn, "give measures_factor or [fire_load.measures], not both")
+        if measures is None and dn is None:
+            raise InputError("fire_load.measures_factor", None,
+                             "is missing; the product delta_n of EN 1991-1-2 Table E.2 (1.0 where no measure is "
+                             "credited), or the measures one by one in [fire_load.measures]")
+        if measures is not None:
+            mt = TableReader(measures, "fire_load.measures", keys=tuple(MEASURES))
+            stated = {}
+            for key in MEASURES:
+                if key == "independent_water_supplies":
+                    v = mt.number(key, "-", required=False, default=0, lo=0, hi=2, integer=True)
+                else:
+                    v = mt.boolean(key, default=None if key in NORMAL_MEASURES else False)
+                    if v is None:
+                        raise InputError(f"fire_load.measures.{key}", None, "is missing; true or false (the normal "
+                                         "fire-fighting measures of EN 1991-1-2 Table E.2 are stated, not assumed)")
+                stated[key] = v
+            mt.done()
+            measures = stated
+            dn = measures_factor(stated, code)
     return FireLoad(characteristic_MJ_m2=qk, design_MJ_m2=qd, combustion_factor=m, area_factor=area_factor,
-                    occupancy_factor=d2, measures_factor=dn, growth=growth, heat_release_density_kW_m2=rhr,
-                    fire_area_m2=a_fi)
+                    occupancy_factor=1.0 if d2 is None else d2, measures_factor=1.0 if dn is None else dn,
+                    growth=growth, heat_release_density_kW_m2=rhr, fire_area_m2=a_fi, occupancy=occupancy,
+                    measures=measures, from_preset=tuple(from_preset))

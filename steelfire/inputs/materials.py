@@ -7,14 +7,15 @@ import sys
 
 from steelfire.errors import InputError
 from steelfire.inputs.tables import TableReader
-from steelfire.models.protection import ASSESSED_FIRES, GENERIC_FILE, Material
+from steelfire.models.protection import ASSESSED_FIRES, GENERIC_FILE, MOISTURE_BASES, Material
 
 if sys.version_info >= (3, 11):
     import tomllib
 else:  # pragma: no cover - exercised on Python 3.10 only
     import tomli as tomllib
 
-MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent", "description", "thicknesses_mm",
+MATERIAL_KEYS = ("density", "conductivity", "specific_heat", "moisture_percent", "moisture_delay_basis", "description",
+                 "thicknesses_mm",
                  "min_thickness_mm", "max_thickness_mm", "thickness_step_mm", "assessed_thickness_mm",
                  "assessed_section_factor_per_m", "assessed_max_steel_temperature_C", "assessed_fire")
 
@@ -46,6 +47,7 @@ def read_material_table(name, md, where) -> Material:
     rho = t.number("density", "kg/m3", lo=1.0, hi=5000.0)
     cp = t.number("specific_heat", "J/(kg K)", lo=100.0, hi=10000.0)
     moist = t.number("moisture_percent", "% of dry weight", required=False, default=0.0, lo=0.0, hi=50.0)
+    basis = t.string("moisture_delay_basis", required=False, default="none", choices=MOISTURE_BASES)
     lam = _read_conductivity(t.raw("conductivity"), where)
     desc = t.string("description", required=False, default="")
     supplied = t.raw("thicknesses_mm")
@@ -68,6 +70,7 @@ def read_material_table(name, md, where) -> Material:
     a_f = t.string("assessed_fire", required=False, default="any", choices=ASSESSED_FIRES)
     t.done()
     return Material(name=name, density=rho, conductivity=lam, specific_heat=cp, moisture_percent=moist,
+                    moisture_delay_basis=basis,
                     thicknesses_mm=supplied, min_thickness_mm=d_lo, max_thickness_mm=d_hi, thickness_step_mm=step,
                     assessed_thickness_mm=a_d, assessed_section_factor_per_m=a_s,
                     assessed_max_steel_temperature_C=a_t, assessed_fire=a_f, description=desc)

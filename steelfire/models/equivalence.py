@@ -3,10 +3,10 @@
 Two closed-form methods, as pure functions (numbers in, frozen dataclass results out):
 
 * EN 1991-1-2 Annex F (informative): ``t_e,d = (q_f,d * k_b * w_f) * k_c``  eq (F.1)
-  -> :func:`annex_f_time_equivalence`, built from :func:`annex_f_conversion_factor` (k_b, Table F.1),
+  -> :func:`annex_f_time_equivalence`, built from :func:`annex_f_conversion_factor` (k_b, Table F.2),
   :func:`annex_f_ventilation_factor` (w_f, eq F.2) and :func:`annex_f_correction_factor`
-  (k_c, Table F.2); the small-compartment alternative eq (F.3) is reported beside the main result.
-* CIB W14: ``t_e = k_c * w * q_f,d``  -> :func:`cib_w14_time_equivalence`.
+  (k_c, Table F.1); the small-compartment alternative eq (F.3) is reported beside the main result.
+* CIB W14: ``t_e = c * w * q_f,d`` (c the conversion factor of the CIB W14 design guide)  -> :func:`cib_w14_time_equivalence`.
 
 Every coefficient taken from a clause is an entry of the code-value registry (:mod:`steelfire.codevalues`)
 and can be overridden through a ``code`` mapping of registry names; each result echoes the values it used
@@ -59,8 +59,8 @@ ANNEX_F_SCOPE_NOTES = (
 CIB_W14_SCOPE_NOTES = (
     "CIB W14 time equivalence is an empirical correlation derived for protected (insulated) members; "
     "it is not a Eurocode method: its use rests with the approving authority.",
-    "CIB W14 k_c values (min m^2.25/MJ by thermal-inertia band) are quoted from memory of textbook "
-    "reproductions of the CIB W14 design guide (1986); check them against the source.",
+    "CIB W14 conversion factor c (min m^2.25/MJ by thermal-inertia band): CIB W14 design guide on structural "
+    "fire safety (1986), values as reproduced in fire-engineering textbooks; verify them against the guide.",
 )
 
 _COVERED_CONSTRUCTIONS = ("steel", "reinforced_concrete")
@@ -208,8 +208,8 @@ class AnnexFResult:
 
     t_e_min: float                      # eq (F.1) with w_f from eq (F.2) [min]
     design_fire_load_MJ_m2: float       # q_f,d per floor area [MJ/m2]
-    k_b: float                          # Table F.1 [min m2/MJ]
-    k_b_band: str                       # which Table F.1 row, e.g. "720 <= b <= 2500"
+    k_b: float                          # Table F.2 [min m2/MJ]
+    k_b_band: str                       # which Table F.2 row, e.g. "720 <= b <= 2500"
     thermal_inertia: Optional[float]    # b [J/(m2 s^0.5 K)], None if not given
     w_f: float                          # used [-]
     w_f_raw: float                      # before w_f >= 0.5 [-]
@@ -219,7 +219,7 @@ class AnnexFResult:
     b_v: float                          # used [-]
     b_v_raw: float                      # before b_v >= 10 [-]
     height_factor: float                # (6.0 / H)^0.3 [-]
-    k_c: float                          # Table F.2 [-]
+    k_c: float                          # Table F.1 [-]
     k_c_basis: str                      # e.g. "protected steel", "unprotected steel: k_c = 13.7 O"
     opening_factor_m05: Optional[float]  # O [m^0.5] used or derived, None if neither given nor derivable
     small_compartment: Optional[AnnexFSmallCompartment]  # eq (F.3) alternative; None if not applicable
@@ -234,14 +234,14 @@ class AnnexFResult:
 
 @dataclass(frozen=True)
 class CibW14Result:
-    """CIB W14 time equivalence t_e = k_c w q_f,d [min]; t_e_min None where the method does not apply."""
+    """CIB W14 time equivalence t_e = c w q_f,d [min]; t_e_min None where the method does not apply."""
 
     t_e_min: Optional[float]            # [min]; None for bare steel
     not_applicable_reason: Optional[str]  # why t_e_min is None; None when it is given
     design_fire_load_MJ_m2: float       # q_f,d per floor area [MJ/m2]
     w: float                            # A_f / sqrt(A_v A_t sqrt(h_eq)) [m^-0.25]
-    k_c: float                          # [min m^2.25/MJ]
-    k_c_band: str                       # thermal-inertia band used
+    c: float                            # conversion factor c [min m^2.25/MJ] (CIB W14)
+    c_band: str                       # thermal-inertia band used
     thermal_inertia: Optional[float]    # b [J/(m2 s^0.5 K)], None if not given
     protected: bool
     warnings: tuple[str, ...]
@@ -260,12 +260,12 @@ def annex_f_conversion_factor(
 ) -> float:
     """Conversion factor k_b [min m2/MJ] from the enclosure's thermal inertia b [J/(m2 s^0.5 K)].
 
-    EN 1991-1-2 Annex F, Table F.1 (recommended values)::
+    EN 1991-1-2 Annex F, Table F.2 (recommended values)::
 
         b > 2500            k_b = 0.04
         720 <= b <= 2500    k_b = 0.055
         b < 720             k_b = 0.07
-        b not assessed      k_b = 0.07   (general value, note to Table F.1)
+        b not assessed      k_b = 0.07   (general value, note to Table F.2)
 
     Step boundaries: both 720 and 2500 belong to the middle row (0.055), i.e. the low row is
     ``b < 720`` and the high row ``b > 2500`` -- as recalled from the table; stated here so that a
@@ -379,7 +379,7 @@ def annex_f_correction_factor(
     opening_factor_m05: Optional[float] = None,
     code: Optional[Mapping[str, Any]] = None,
 ) -> float:
-    """Correction factor k_c [-], EN 1991-1-2 Annex F Table F.2::
+    """Correction factor k_c [-], EN 1991-1-2 Annex F Table F.1::
 
         protected steel       k_c = 1.0
         reinforced concrete   k_c = 1.0
@@ -415,7 +415,7 @@ def _annex_f_kc(
         raise InputError(
             "opening_factor_m05",
             None,
-            "needed for unprotected steel, k_c = 13.7 O (Table F.2): give opening_factor_m05, "
+            "needed for unprotected steel, k_c = 13.7 O (Table F.1): give opening_factor_m05, "
             "or total_area_m2 and opening_height_m",
         )
     c = values["annex_f_kc_bare_steel_per_o"]
@@ -456,9 +456,9 @@ def annex_f_time_equivalence(
 
         t_e,d = (q_f,d * k_b * w_f) * k_c
 
-    q_f,d design fire load density per floor area [MJ/m2] (Annex E); k_b [min m2/MJ] by Table F.1
+    q_f,d design fire load density per floor area [MJ/m2] (Annex E); k_b [min m2/MJ] by Table F.2
     (:func:`annex_f_conversion_factor`); w_f [-] by eq (F.2) (:func:`annex_f_ventilation_factor`);
-    k_c [-] by Table F.2 (:func:`annex_f_correction_factor`).
+    k_c [-] by Table F.1 (:func:`annex_f_correction_factor`).
 
     Small-compartment alternative, eq (F.3), for A_f < 100 m2 without roof openings::
 
@@ -552,35 +552,35 @@ def annex_f_time_equivalence(
 def cib_w14_conversion_factor(
     thermal_inertia: Optional[float] = None, *, code: Optional[Mapping[str, Any]] = None
 ) -> float:
-    """CIB W14 factor k_c [min m^2.25/MJ] from the enclosure's thermal inertia b [J/(m2 s^0.5 K)]::
+    """CIB W14 factor c [min m^2.25/MJ] from the enclosure's thermal inertia b [J/(m2 s^0.5 K)]::
 
-        b > 2500            k_c = 0.05
-        720 <= b <= 2500    k_c = 0.07
-        b < 720             k_c = 0.09
-        b not known         k_c = 0.1    (general value)
+        b > 2500            c = 0.05
+        720 <= b <= 2500    c = 0.07
+        b < 720             c = 0.09
+        b not known         c = 0.1    (general value)
 
     Table from the CIB W14 design guide on structural fire safety (1986), as reproduced in
     fire-engineering textbooks; values FROM MEMORY. The band limits are taken to be those of
-    EN 1991-1-2 Table F.1 (720 and 2500 both in the middle band), an assumption.
-    Overridable names: ``cib_w14_kc_high_inertia``, ``cib_w14_kc_medium_inertia``,
-    ``cib_w14_kc_low_inertia``, ``cib_w14_kc_general``, ``cib_w14_inertia_lower_limit``,
+    EN 1991-1-2 Table F.2 (720 and 2500 both in the middle band), an assumption.
+    Overridable names: ``cib_w14_c_high_inertia``, ``cib_w14_c_medium_inertia``,
+    ``cib_w14_c_low_inertia``, ``cib_w14_c_general``, ``cib_w14_inertia_lower_limit``,
     ``cib_w14_inertia_upper_limit``.
     """
     b = _optional_positive("thermal_inertia", thermal_inertia)
     values = _code_values(code, _CIB_W14_PREFIX)
-    return _cib_kc(b, values)[0]
+    return _cib_c(b, values)[0]
 
 
-def _cib_kc(b: Optional[float], values: Mapping[str, float]) -> tuple[float, str]:
+def _cib_c(b: Optional[float], values: Mapping[str, float]) -> tuple[float, str]:
     lower, upper = values["cib_w14_inertia_lower_limit"], values["cib_w14_inertia_upper_limit"]
     band = _band(b, lower, upper)
-    k_c = {
-        "high": values["cib_w14_kc_high_inertia"],
-        "medium": values["cib_w14_kc_medium_inertia"],
-        "low": values["cib_w14_kc_low_inertia"],
-        "unknown": values["cib_w14_kc_general"],
+    c = {
+        "high": values["cib_w14_c_high_inertia"],
+        "medium": values["cib_w14_c_medium_inertia"],
+        "low": values["cib_w14_c_low_inertia"],
+        "unknown": values["cib_w14_c_general"],
     }[band]
-    return k_c, _BAND_LABELS[band].format(lower=lower, upper=upper)
+    return c, _BAND_LABELS[band].format(lower=lower, upper=upper)
 
 
 def cib_w14_ventilation_factor(
@@ -620,10 +620,10 @@ def cib_w14_time_equivalence(
 ) -> CibW14Result:
     """CIB W14 equivalent time of standard fire exposure t_e [min]::
 
-        t_e = k_c * w * q_f,d
+        t_e = c * w * q_f,d
         w   = A_f / sqrt(A_v * A_t * sqrt(h_eq))     [m^-0.25]
 
-    q_f,d design fire load density per floor area [MJ/m2]; k_c [min m^2.25/MJ] by thermal-inertia band
+    q_f,d design fire load density per floor area [MJ/m2]; c [min m^2.25/MJ] by thermal-inertia band
     (:func:`cib_w14_conversion_factor`; CIB W14 design guide on structural fire safety (1986), as
     reproduced in textbooks, values from memory); geometry as in :func:`cib_w14_ventilation_factor`.
 
@@ -649,15 +649,15 @@ def cib_w14_time_equivalence(
     values = _code_values(code, _CIB_W14_PREFIX)
 
     warnings: list[str] = list(CIB_W14_SCOPE_NOTES)
-    k_c, band = _cib_kc(b, values)
+    c, band = _cib_c(b, values)
     if b is None:
-        warnings.append(f"CIB W14: thermal inertia not given; general value k_c = {k_c:g} min m^2.25/MJ used.")
+        warnings.append(f"CIB W14: thermal inertia not given; general value c = {c:g} min m^2.25/MJ used.")
     if a_h > 0.0:
         warnings.append(
             "CIB W14: the formula has no term for roof openings; roof_opening_area_m2 ignored (conservative)."
         )
     if prot:
-        t_e: Optional[float] = k_c * w * q
+        t_e: Optional[float] = c * w * q
         reason = None
     else:
         t_e = None
@@ -667,8 +667,8 @@ def cib_w14_time_equivalence(
         not_applicable_reason=reason,
         design_fire_load_MJ_m2=q,
         w=w,
-        k_c=k_c,
-        k_c_band=band,
+        c=c,
+        c_band=band,
         thermal_inertia=b,
         protected=prot,
         warnings=tuple(warnings),

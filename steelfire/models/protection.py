@@ -27,6 +27,9 @@ DEFAULT_MAX_THICKNESS_MM = 100.0
 DEFAULT_THICKNESS_STEP_MM = 0.5
 
 ASSESSED_FIRES = ("any", "standard")
+#: Whether a material's moisture delay may be credited: only where its assessment (tests to EN 13381-4)
+#: supports it, EN 1993-1-2 4.2.5.2(2).
+MOISTURE_BASES = ("none", "tests")
 
 GENERIC_FILE = Path(__file__).parents[1] / "data" / "materials_generic.toml"
 
@@ -40,6 +43,7 @@ class Material:
     conductivity: float | tuple
     specific_heat: float
     moisture_percent: float = 0.0
+    moisture_delay_basis: str = "none"   # "tests": the delay of free water is credited (EN 1993-1-2 4.2.5.2(2))
     thicknesses_mm: tuple | None = None
     min_thickness_mm: float | None = None
     max_thickness_mm: float | None = None
@@ -56,6 +60,11 @@ class Material:
         if isinstance(self.conductivity, tuple):
             return self.conductivity
         return ((20.0, float(self.conductivity)),)
+
+    @property
+    def credited_moisture_percent(self) -> float:
+        """The free water whose delay is credited: the moisture content where the delay comes from tests, else 0."""
+        return self.moisture_percent if self.moisture_delay_basis == "tests" else 0.0
 
     @property
     def conductivity_at_20C(self) -> float:

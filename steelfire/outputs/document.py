@@ -80,8 +80,9 @@ def _sig_tree(v):
 def _sizing_entry(s):
     return {"standard_period_mm": rounded(s["standard_period_mm"]), "burnout_mm": rounded(s["burnout_mm"]),
             "governing": s["governing"], "chosen_mm": rounded(s["chosen_mm"]), "achievable": bool(s["achievable"]),
-            "note": s["note"], "supplied_range_mm": s["supplied_range_mm"], "iterations": s["iterations"],
-            "given_mm": rounded(s.get("given_mm"))}
+            "note": s["note"], "supplied_range_mm": s["supplied_range_mm"],
+            "specified_mm": rounded(s.get("specified_mm")), "specified_ok": s.get("specified_ok"),
+            "change": s.get("change")}
 
 
 def member_entries(table) -> list:
@@ -203,6 +204,7 @@ def case_inputs(case) -> dict:
         cond = [[_num(t), _num(v)] for t, v in cond] if isinstance(cond, tuple) else _num(cond)
         mats.append({"name": name, "density": _num(m.density), "conductivity": cond,
                      "specific_heat": _num(m.specific_heat), "moisture_percent": _num(m.moisture_percent),
+                     "moisture_delay_basis": m.moisture_delay_basis,
                      "description": m.description})
     out["materials"] = mats
     out["code_overrides"] = {k: _num(v) for k, v in sorted(case.code_overrides.items())}

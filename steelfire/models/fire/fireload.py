@@ -17,6 +17,53 @@ AREA_FACTOR_ROWS = (
     (10000.0, "delta_q1_10000m2"),
 )
 
+#: Occupancy presets: EN 1991-1-2 Table E.4 (characteristic fire load density, 80 % fractile [MJ/m2]), Table E.5
+#: (fire growth rate, RHR_f [kW/m2]) and, where Table E.1's examples name the occupancy, delta_q2. Every value
+#: from memory of EN 1991-1-2:2002.
+OCCUPANCIES = {
+    "dwelling": {"characteristic_MJ_m2": 948.0, "growth": "medium", "heat_release_density_kW_m2": 250.0,
+                 "occupancy_factor": 1.0},
+    "hospital_room": {"characteristic_MJ_m2": 280.0, "growth": "medium", "heat_release_density_kW_m2": 250.0},
+    "hotel_room": {"characteristic_MJ_m2": 377.0, "growth": "medium", "heat_release_density_kW_m2": 250.0,
+                   "occupancy_factor": 1.0},
+    "library": {"characteristic_MJ_m2": 1824.0, "growth": "fast", "heat_release_density_kW_m2": 500.0},
+    "office": {"characteristic_MJ_m2": 511.0, "growth": "medium", "heat_release_density_kW_m2": 250.0,
+               "occupancy_factor": 1.0},
+    "classroom": {"characteristic_MJ_m2": 347.0, "growth": "medium", "heat_release_density_kW_m2": 250.0},
+    "shopping_centre": {"characteristic_MJ_m2": 730.0, "growth": "fast", "heat_release_density_kW_m2": 250.0},
+    "theatre_cinema": {"characteristic_MJ_m2": 365.0, "growth": "fast", "heat_release_density_kW_m2": 500.0},
+    "transport_public_space": {"characteristic_MJ_m2": 122.0, "growth": "slow", "heat_release_density_kW_m2": 250.0},
+}
+
+#: The fire-fighting measures of EN 1991-1-2 Table E.2 a case may state ([fire_load.measures]): key -> how its
+#: value maps to a code-value name (None: the factor is 1).
+MEASURES = {
+    "sprinklers": lambda v: "delta_n1_sprinklers" if v else None,
+    "independent_water_supplies": lambda v: {0: None, 1: "delta_n2_one_water_supply",
+                                             2: "delta_n2_two_water_supplies"}[v],
+    "heat_detection": lambda v: "delta_n3_heat_detection" if v else None,
+    "smoke_detection": lambda v: "delta_n4_smoke_detection" if v else None,
+    "alarm_transmission": lambda v: "delta_n5_alarm_transmission" if v else None,
+    "work_fire_brigade": lambda v: "delta_n6_work_fire_brigade" if v else None,
+    "offsite_fire_brigade": lambda v: "delta_n7_offsite_fire_brigade" if v else None,
+    "safe_access_routes": lambda v: None if v else "delta_n8_no_safe_access",
+    "fire_fighting_devices": lambda v: None if v else "delta_n9_no_fire_fighting_devices",
+    "smoke_exhaust": lambda v: None if v else "delta_n10_no_smoke_exhaust",
+}
+#: The normal fire-fighting measures of Table E.2 (delta_n8-10), which a case must state when it lists its measures.
+NORMAL_MEASURES = ("safe_access_routes", "fire_fighting_devices", "smoke_exhaust")
+
+
+def measures_factor(measures: dict, code=DEFAULTS) -> float:
+    """delta_n = product of the delta_n,i of the stated measures, EN 1991-1-2 E.(1) and Table E.2."""
+    f = 1.0
+    for key, value in measures.items():
+        name = MEASURES[key](value)
+        if name is not None:
+            f *= code[name]
+    return f
+
+
 #: Growth rate -> code-value name of t_lim, EN 1991-1-2 Annex A (10) (slow 25, medium 20, fast 15 min).
 GROWTH_TLIM = {"slow": "t_lim_slow_min", "medium": "t_lim_medium_min", "fast": "t_lim_fast_min"}
 
@@ -36,6 +83,9 @@ class FireLoad:
     growth: str = "medium"
     heat_release_density_kW_m2: float | None = None   # RHR_f, EN 1991-1-2 Table E.5 (localised, travelling fires)
     fire_area_m2: float | None = None                 # A_fi, the area on fire (localised fire)
+    occupancy: str | None = None                      # a preset of OCCUPANCIES
+    measures: dict | None = None                      # the stated measures of Table E.2 (measures_factor their product)
+    from_preset: tuple = ()                           # the keys taken from the occupancy preset
 
 
 def design_density(fire_load: FireLoad, floor_area_m2, code=DEFAULTS):
