@@ -308,3 +308,12 @@ class AnalysisResult:
         from steelfire.outputs.document import build
 
         return build(self)
+
+    def to_dataframe(self):
+        """The members' results as a pandas DataFrame (one row per member, the document's member keys,
+        nested entries flattened with dots); needs pandas (an optional dependency)."""
+        try:
+            import pandas as pd
+        except ImportError:
+            raise ImportError("to_dataframe needs pandas: python -m pip install pandas") from None
+        return pd.json_normalize(self.to_dict()["members"])

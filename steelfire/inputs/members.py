@@ -107,6 +107,7 @@ class Member:
     design: dict | None = None
     geometry: object = field(default=None, compare=False, repr=False)
     position: dict | None = None
+    row: dict = field(default=None, compare=False, repr=False)   # the keys as given, for Case.with_member
 
     @property
     def by_resistance(self) -> bool:
@@ -460,7 +461,8 @@ def _block(rows: MemberRows, materials, code):
             encasement=None if encasement[i] is ABSENT else encasement[i],
             shadow_ratio=ratio if p is None else 1.0, i_section=i_sec, notes=tuple(notes), design=design,
             geometry=geom, position=None if col("position")[i] is ABSENT
-            else {k: float(x) for k, x in col("position")[i].items()}))
+            else {k: float(x) for k, x in col("position")[i].items()},
+            row={k: v[i] for k, v in c.items() if v[i] is not ABSENT}))
     return out
 
 

@@ -33,8 +33,11 @@ BOOLEANS = {"true": True, "yes": True, "1": True, "false": False, "no": False, "
 
 
 def read_schedule(path, field: str = "members_file") -> MemberRows:
-    """The member rows of a schedule CSV, by column (see :class:`steelfire.inputs.members.MemberRows`)."""
+    """The member rows of a schedule (CSV, or the first sheet of an .xlsx workbook), by column (see
+    :class:`steelfire.inputs.members.MemberRows`)."""
     p = Path(path)
+    if p.suffix.lower() == ".xlsx":
+        return read_workbook(p, field)
     lines, rows = read_rows_split(p, field, "member rows under a header of member keys")
     if not rows:
         raise InputError(field, p.name, "is empty; needs a header row with at least name and a section factor")
@@ -139,3 +142,47 @@ def _is_nonfinite(text):
         return not math.isfinite(float(text))
     except ValueError:
         return False
+
+
+def read_workbook(path, field: str = "members_file") -> MemberRows:
+    """The member rows of the first sheet of an .xlsx workbook (openpyxl, the ``xlsx`` extra): a header row
+    of member keys, one member per row; blank rows skipped. Errors name the sheet, the row and the column."""
+    p = Path(path)
+    try:
+        import openpyxl
+    except ImportError:
+        raise InputError(field, p.name, "an .xlsx schedule needs openpyxl: python -m pip install 'steelfire[xlsx]'") \
+            from None
+    if not p.is_file():
+        raise InputError(field, str(path), "must name an existing schedule file (relative to the case file)")
+    try:
+        book = openpyxl.load_workbook(p, read_only=True, data_only=True)
+    except Exception as exc:  # openpyxl raises many kinds for a damaged file
+        raise InputError(field, p.name, f"must be a readable .xlsx workbook ({exc.__class__.__name__})") from None
+    sheet = book.worksheets[0]
+    where_sheet = f"{p.name} sheet {sheet.title!r}"
+    lines, rows = [], []
+    for r, values in enumerate(sheet.iter_rows(values_only=True), start=1):
+        cells = list(values)
+        while cells and (cells[-1] is None or (isinstance(cells[-1], str) and not cells[-1].strip())):
+            cells.pop()
+        if not cells or (isinstance(cells[0], str) and cells[0].lstrip().startswith("#")):
+            continue
+        lines.append(r)
+        rows.append(cells)
+        if len(rows) > MAX_ROWS + 1:
+            raise InputError(field, p.name, f"at most {MAX_ROWS} members")
+    book.close()
+    if not rows:
+        raise InputError(field, p.name, "is empty; needs a header row with at least name and a section factor")
+    cols = check_header([str(c).strip() if c is not None else "" for c in rows[0]], f"{where_sheet} header")
+    lines, rows = lines[1:], rows[1:]
+    if not rows:
+        raise InputError(field, p.name, "has a header but no member rows")
+    width = len(cols)
+    for line, row in zip(lines, rows):
+        if len(row) > width:
+            raise InputError(f"{where_sheet} row {line}", str(row)[:80], f"has {len(row)} cells; the header has {width}")
+    columns = convert_columns(cols, [r + [None] * (width - len(r)) for r in rows],
+                              lambda i, col: f"{where_sheet} row {lines[i]} column {col}")
+    return MemberRows(len(rows), nest_positions(columns), lambda i: f"{where_sheet} row {lines[i]}")

@@ -26,6 +26,7 @@ from steelfire.outputs import document, tables
 
 #: Names of the files a run writes (figures add ``fig_<name>.png`` / ``.svg``).
 RESULTS_JSON = "results.json"
+MEMBERS_XLSX = "members.xlsx"
 MEMBERS_CSV = "members.csv"
 HISTORIES_CSV = "histories.csv"
 REPORT_HTML = "report.html"
@@ -52,7 +53,7 @@ def output_targets() -> list:
     """Every file name a run may write into its output directory."""
     from steelfire.outputs.report.plots import FIGURE_NAMES
 
-    return [RESULTS_JSON, MEMBERS_CSV, HISTORIES_CSV, REPORT_HTML] + \
+    return [RESULTS_JSON, MEMBERS_CSV, MEMBERS_XLSX, HISTORIES_CSV, REPORT_HTML] + \
         [f"fig_{n}.{x}" for n in FIGURE_NAMES for x in ("png", "svg")]
 
 
@@ -217,6 +218,9 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
     payloads = {RESULTS_JSON: document.dumps(doc) + b"\n",
                 MEMBERS_CSV: tables.members_csv(doc).encode("utf-8"),
                 HISTORIES_CSV: hist_text.encode("utf-8")}
+    xlsx = tables.members_xlsx(doc)
+    if xlsx is not None:
+        payloads[MEMBERS_XLSX] = xlsx
     for fig in figures:
         payloads[f"fig_{fig.name}.png"] = fig.png
         payloads[f"fig_{fig.name}.svg"] = fig.svg.encode("utf-8")

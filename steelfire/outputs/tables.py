@@ -139,3 +139,37 @@ def schedule_csv(doc, case) -> str:
                     _fmt(d["required_minutes"], "g", ""), f"{d['critical_temperature_C']:g}",
                     f"{d['peak_steel_temperature_C']:g}", "yes" if s["achievable"] else "no", s["note"]])
     return buf.getvalue()
+
+
+#: Characters that make a spreadsheet read a cell as a formula (CSV and xlsx injection); such text is written
+#: with a leading apostrophe, which spreadsheets show as text and do not evaluate.
+FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
+
+
+def members_xlsx(doc) -> bytes | None:
+    """members.csv as an .xlsx workbook (bytes), or None where openpyxl is not installed. Text cells are
+    stored as text, never as formulas."""
+    try:
+        import openpyxl
+    except ImportError:
+        return None
+    import csv as _csv
+
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.title = "members"
+    for row in _csv.reader(io.StringIO(members_csv(doc))):
+        out = []
+        for cell in row:
+            try:
+                out.append(float(cell) if cell not in ("", "nan") and not cell.startswith("'") else cell)
+            except ValueError:
+                out.append(cell)
+        sheet.append(out)
+    for row in sheet.iter_rows():
+        for c in row:
+            if isinstance(c.value, str):
+                c.data_type = "s"
+    buf = io.BytesIO()
+    book.save(buf)
+    return buf.getvalue()
