@@ -35,6 +35,7 @@ def _parser():
         q.add_argument("--json", action="store_true", help="print the result document as JSON on stdout")
         q.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _load
                        help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
+        q.add_argument("--wide", action="store_true", help="terminal tables wider than 100 columns (names uncut)")
         q.add_argument("--out", default=None, metavar="DIR",
                        help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
                             "self-contained report.html into DIR (created if missing)")
@@ -45,6 +46,7 @@ def _parser():
     s.add_argument("--time-step-s", default=None, metavar="S", help="time step [s] (overrides analysis.time_step_s)")
     s.add_argument("--out", default=None, metavar="DIR", help="also write the deterministic check's files, the "
                    "sampled inputs and per-member statistics (CSV) and their figures into DIR")
+    s.add_argument("--wide", action="store_true", help="terminal tables wider than 100 columns (names uncut)")
     s.add_argument("--fires", default=None, metavar="N", help="number of sampled fires (overrides variability.fires)")
     s.add_argument("--seed", default=None, metavar="S", help="seed (overrides variability.seed); the same seed "
                    "gives the same answer whatever the workers")
@@ -59,82 +61,11 @@ def _parser():
     return p
 
 
-def _fmt(v, spec, none="-"):
-    return none if v is None else format(v, spec)
+def render_table(result, sizing=False, wide=False, out_dir=None) -> str:
+    """The terminal summary of a run (:func:`steelfire.outputs.terminal.render` of its document)."""
+    from steelfire.outputs import document, terminal
 
-
-def _table(head, rows):
-    widths = [max(len(h), *(len(r[j]) for r in rows)) for j, h in enumerate(head)]
-    out = ["  ".join(h.ljust(w) for h, w in zip(head, widths)).rstrip(), "  ".join("-" * w for w in widths)]
-    out += ["  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip() for r in rows]
-    return out
-
-
-def render_table(result, sizing=False) -> str:
-    """The terminal summary: the design fire, one row per member, warnings, cautions."""
-    f = result.fire
-    lines = [f"steelfire {'size' if sizing else 'check'}: {result.title}", ""]
-    fire_bits = [f"design fire: {f.curve}", f"peak gas {f.peak_gas_temperature_C:.1f} C at {f.time_of_peak_gas_min:.1f} min",
-                 f"duration {f.duration_min:g} min"]
-    if f.regime:
-        fire_bits.append(f"{f.regime}-controlled")
-    lines.append(", ".join(fire_bits))
-    if f.opening_factor_m05 is not None:
-        lines.append(f"  O = {f.opening_factor_m05:.4f} m^0.5, b = {f.thermal_inertia:.0f} J/(m2 s^0.5 K), "
-                     f"q_f,d = {f.design_fire_load_MJ_m2:.1f} MJ/m2, q_t,d = {f.total_area_fire_load_MJ_m2:.1f} MJ/m2")
-    if f.gamma is not None:
-        extra = f", Gamma_lim = {f.gamma_lim:.4g}" if f.gamma_lim is not None else ""
-        extra += f", k = {f.k_factor:.4g}" if f.k_factor is not None else ""
-        lines.append(f"  Gamma = {f.gamma:.4g}{extra}, t_lim = {f.t_lim_min:g} min, t_max = {f.t_max_min:.1f} min")
-    lines.append("")
-    head = ["member", "kind", "section factor [1/m]", "protection", "d_p [mm]", "theta_cr [C]",
-            "peak steel [C]", "at [min]", "margin [C]", "design fire", "R std [min]", "required [min]", "period"]
-    rows = []
-    for m in result.members:
-        rows.append([
-            m.name, m.kind, f"{m.section_factor_per_m:.1f}", m.protection or "bare", _fmt(m.thickness_mm, "g"),
-            f"{m.critical_temperature_C:.1f}", f"{m.peak_steel_temperature_C:.1f}", f"{m.time_of_peak_steel_min:.1f}",
-            f"{m.margin_C:+.1f}", "PASS" if m.passes else "FAIL",
-            _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
-            _fmt(m.required_minutes, "g"),
-            {None: "-", True: "meets", False: "SHORT"}[m.meets_required_period]])
-    lines += _table(head, rows)
-    lines += ["", "Time equivalence (standard-fire minutes said to match the design fire):"]
-    head = ["member", "required [min]", "R std [min]", "Annex F [min]", "CIB W14 [min]", "equal temp. [min]",
-            "F (F.3) [min]", "unconservative"]
-    rows = []
-    for m in result.members:
-        e = m.equivalence or {}
-        rows.append([m.name, _fmt(m.required_minutes, "g"),
-                     _fmt(m.standard_fire_time_to_critical_min, ".1f", f"> {result.standard_horizon_min:g}"),
-                     _fmt(e.get("annex_f_min"), ".1f"), _fmt(e.get("cib_w14_min"), ".1f"),
-                     _fmt(e.get("equal_temperature_min"), ".1f", f"> {result.standard_horizon_min:g}"),
-                     _fmt(e.get("annex_f_small_compartment_min"), ".1f"),
-                     ", ".join(e.get("unconservative", [])) or "-"])
-    lines += _table(head, rows)
-    if sizing:
-        lines += ["", "Protection sizing (least thickness; chosen = least supplied thickness passing both criteria):"]
-        head = ["member", "protection", "std period [mm]", "burnout [mm]", "governing", "chosen [mm]", "achievable"]
-        rows = []
-        notes = []
-        for m in result.members:
-            s = m.sizing
-            rows.append([m.name, m.protection or "bare", _fmt(s["standard_period_mm"], ".1f"),
-                         _fmt(s["burnout_mm"], ".1f"), s["governing"] or "-", _fmt(s["chosen_mm"], "g"),
-                         "yes" if s["achievable"] else "NO"])
-            if s["note"]:
-                notes.append(f"  {m.name}: {s['note']}")
-        lines += _table(head, rows) + notes
-    n_ok = sum(m.ok for m in result.members)
-    lines += ["", f"{n_ok} of {len(result.members)} members pass the design fire and meet their required period."]
-    if result.out_of_scope:
-        lines += ["", "*** COMPUTED OUTSIDE THE SCOPE OF THE METHOD (analysis.allow_out_of_scope = true) ***"]
-    if result.warnings:
-        lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
-    from steelfire.chain.analysis import CAUTIONS_LINE
-
-    lines += ["", CAUTIONS_LINE]
-    return "\n".join(lines)
+    return terminal.render(document.build(result), sizing=sizing, wide=wide, out_dir=out_dir)
 
 
 def _load(args):
@@ -164,7 +95,7 @@ def _print(result, args, sizing=False):
         sys.stdout.buffer.write(document.dumps(document.build(result)) + b"\n")
         sys.stdout.flush()
     else:
-        sys.stdout.write(render_table(result, sizing=sizing) + "\n")
+        sys.stdout.write(render_table(result, sizing=sizing, wide=args.wide, out_dir=args.out) + "\n")
 
 
 def _run_check(args) -> int:
@@ -237,7 +168,7 @@ def _run_sample(args) -> int:
         sys.stdout.buffer.write(document.dumps(doc) + b"\n")
         sys.stdout.flush()
     else:
-        sys.stdout.write(render_table(result) + "\n\n" + _sample_summary(section) + "\n")
+        sys.stdout.write(render_table(result, wide=args.wide, out_dir=args.out) + "\n\n" + _sample_summary(section) + "\n")
     target = section.get("target_probability")
     too_likely = target is not None and any(
         m["exceedance_probability"] > target for m in section["members"])
