@@ -325,8 +325,8 @@ def route_conflicts(doc, m) -> list:
             why.append(f"{label} time {fixed(t)} min is within the member's standard-fire time to critical "
                        f"{std_time_text(doc, t_fi)} min, but {direct}")
         if why:
-            out.append({"route": r, "label": label, "time_min": t, "flagged": r in unc or (r == "annex_f_small_compartment"
-                                                                               and "annex_f" in unc), "text": "; ".join(why)})
+            flagged = r in unc or (r == "annex_f_small_compartment" and "annex_f" in unc)
+            out.append({"route": r, "label": label, "time_min": t, "flagged": flagged, "text": "; ".join(why)})
     return out
 
 
@@ -357,32 +357,39 @@ def _proposed_ok(m) -> bool:
 def sizing_rows(doc) -> list:
     """One :class:`SizingRow` per member with a sizing entry, in schedule order.
 
-    The specified design meets a criterion where the member's specified thickness (``given_mm``) is at
-    least the least thickness for it (``standard_period_mm`` where the member has a required period;
-    ``burnout_mm`` always); a criterion no supplied thickness meets is not met. A bare member keeps its
-    own verdict. The proposed design is the run's check at the chosen thicknesses.
+    The specified thickness is ``sizing.specified_mm`` (``given_mm`` in earlier documents). The
+    specified design's verdict is ``sizing.specified_ok`` where the document gives it (the check at
+    the specified thicknesses); otherwise the specified thickness must be at least the least thickness
+    for each criterion (``standard_period_mm`` where the member has a required period, ``burnout_mm``
+    where the document gives one), and a criterion no supplied thickness meets is not met. The reasons
+    name each criterion the specified thickness falls below. A bare member keeps its own verdict. The
+    proposed design is the run's check at the chosen thicknesses.
     """
     out = []
     for m in doc.get("members") or []:
         s = m.get("sizing")
         if not isinstance(s, dict):
             continue
-        given, chosen = s.get("given_mm"), s.get("chosen_mm")
+        given = s.get("specified_mm", s.get("given_mm"))
+        chosen = s.get("chosen_mm")
         std, burn = s.get("standard_period_mm"), s.get("burnout_mm")
         prot = m.get("protection")
         reasons = []
         if prot is None:
-            spec = m.get("passes") is True and m.get("meets_required_period") is not False
+            spec = s.get("specified_ok") if "specified_ok" in s else None
+            if spec is None:
+                spec = m.get("passes") is True and m.get("meets_required_period") is not False
             change, change_mm = "bare", None
             if not spec:
                 reasons.append("bare steel fails")
         else:
-            needs = [("burnout", burn)]
+            needs = []
             if m.get("required_minutes") is not None:
-                needs.insert(0, ("standard period", std))
-            if given is None:
-                spec = None
-            else:
+                needs.append(("standard period", std))
+            if burn is not None or s.get("achievable") is False:
+                needs.append(("design fire", burn))
+            spec = None
+            if given is not None:
                 spec = True
                 for crit, v in needs:
                     if v is None:
@@ -392,6 +399,12 @@ def sizing_rows(doc) -> list:
                         spec = False
                         reasons.append(f"specified {fmt(given, 'input')} mm is below the {ceiling(v)} mm needed "
                                        f"for the {crit}")
+            if "specified_ok" in s and s["specified_ok"] is not None:
+                spec = bool(s["specified_ok"])
+                if not spec and not reasons:
+                    reasons.append(f"the check at the specified {fmt(given, 'input')} mm fails")
+                if spec:
+                    reasons = []
             if chosen is None:
                 change, change_mm = "not achievable", None
             elif given is None:
@@ -461,8 +474,8 @@ def verdict_lines(doc, sizing: bool) -> list:
     spec_ok = sum(1 for r in rows if r.specified_ok is True)
     spec_none = sum(1 for r in rows if r.specified_ok is None)
     prop_ok = sum(1 for r in rows if r.proposed_ok)
-    spec = (f"Specified design: {spec_ok} of {len(rows)} members have a specified thickness at least the "
-            "required by every criterion")
+    spec = (f"Specified design: {spec_ok} of {len(rows)} members pass the design fire and meet their required "
+            "period at the specified thicknesses")
     spec += f" ({spec_none} without a specified thickness)." if spec_none else "."
     prop = (f"Proposed design (chosen thicknesses): {prop_ok} of {len(rows)} members pass the design fire and "
             "meet their required period.")

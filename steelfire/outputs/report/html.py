@@ -1,783 +1,725 @@
-"""The self-contained HTML report of a run: inline CSS and SVG, no external resources, prints to A4.
+"""The report page of a run: the context of the template ``report.html.j2`` from the result document.
 
-Every number is formatted from the result document (the dict written to results.json) by
-:func:`steelfire.output.format_number`; each numeric cell carries the JSON path of its value::
+The page is self-contained (``report.css`` and the figures' SVG inline, no external resource) and
+prints to A4 with a running header, page numbers and a title block for the record. jinja2 is
+imported only when a page is rendered, with autoescaping on: every name and text from the case is
+escaped. The report reads only the document (results.json, with ``report`` from
+:func:`steelfire.outputs.report.plots.plan`) and never recomputes physics.
 
-    <td class="num" data-key="fire.opening_factor_m05">0.0412353</td>
+Numbers are rounded for reading (:mod:`steelfire.outputs.present`: temperatures and times to 0.1,
+factors to 4 significant figures, inputs as given); each numeric cell carries the JSON path of its
+exact value::
 
-so that a test (or a reviewer) can hold every number shown against results.json. A null shows as an
-em dash; a time beyond the standard-fire horizon as ``> horizon`` (class ``num gt``, keyed to the
-horizon). Text cells that repeat a document string carry ``class="txt"`` and its ``data-key``;
-verdict words carry ``class="flag"``. All user text (title, member and material names, file names)
-is escaped with :func:`html.escape`.
+    <td class="num" data-key="fire.gamma">3.118</td>
+
+A null shows as an em dash; a standard-fire time beyond the horizon as ``> horizon`` (class
+``num gt``, keyed to the horizon).
 """
 
 from __future__ import annotations
 
-from html import escape as _esc
+import re
+from pathlib import Path
 
-from steelfire.outputs.tables import format_number
+from steelfire.outputs import present as P
 
-DASH = "\u2014"
+HERE = Path(__file__).resolve().parent
+TEMPLATE = "report.html.j2"
+STYLESHEET = "report.css"
+DASH = P.DASH
 
-_CURVE_SOURCE = {
-    "parametric": "EN 1991-1-2 Annex A, parametric temperature-time curve, eq (A.1), cooling eq (A.11)",
-    "standard": "EN 1991-1-2 3.2.1, standard temperature-time curve, eq (3.4)",
-    "external": "EN 1991-1-2 3.2.2, external fire curve, eq (3.5)",
-    "hydrocarbon": "EN 1991-1-2 3.2.3, hydrocarbon curve, eq (3.6)",
-    "table": "tabulated gas temperatures (case file), linear between points",
-}
-_ALPHA_SOURCE = {
-    "standard": "EN 1991-1-2 3.2.1(3)", "external": "EN 1991-1-2 3.2.2(2)",
-    "hydrocarbon": "EN 1991-1-2 3.2.3(2)", "parametric": "EN 1991-1-2 3.3.1.1(3), natural fire",
-    "table": "EN 1991-1-2 3.3.1.1(3), natural fire",
-}
-_ROUTE_LABEL = {"annex_f": "Annex F", "cib_w14": "CIB W14", "equal_temperature": "equal temperature"}
+#: Longest title in the running header of a printed page (the title block holds it whole).
+HEADER_TITLE_MAX = 70
+#: Member names listed in one warning of the report.
+NAMES_IN_WARNING = 40
 
 
 # ----------------------------------------------------------------------------------------------
-# document access and cells
-
-
-class _Missing(Exception):
-    pass
+# document access
 
 
 def get(doc, key):
-    """The value at a dotted JSON path (list indices as integers); None where a parent is null."""
+    """The value at a dotted JSON path (list indices as integers); None where it or a parent is missing."""
     v = doc
     for part in key.split("."):
         if v is None:
             return None
         if isinstance(v, list):
-            v = v[int(part)]
+            try:
+                v = v[int(part)]
+            except (ValueError, IndexError):
+                return None
         elif isinstance(v, dict):
-            if part not in v:
-                raise _Missing(key)
-            v = v[part]
+            v = v.get(part)
         else:
-            raise _Missing(key)
+            return None
     return v
 
 
-def _has(doc, key) -> bool:
-    try:
-        get(doc, key)
-        return True
-    except (_Missing, IndexError, ValueError):
-        return False
+def cell(doc, key, kind=None, none=DASH, cls="num"):
+    """A table cell for the value at ``key``: its display text, its key, its classes."""
+    v = get(doc, key)
+    if kind is None:
+        kind = P.kind_of(key)
+    if v is None:
+        return {"text": none, "key": key, "cls": f"{cls} null"}
+    if isinstance(v, bool):
+        return {"text": "yes" if v else "no", "key": key, "cls": "flag"}
+    if isinstance(v, str):
+        return {"text": v, "key": key, "cls": "txt"}
+    if isinstance(v, (list, dict)):
+        return {"text": P.fmt(v, kind), "key": key, "cls": "txt"}
+    return {"text": P.fmt(v, kind), "key": key, "cls": cls}
 
 
-class _Cells:
-    """Table cells whose content is looked up in the document by key (never passed in as a value)."""
-
-    def __init__(self, doc, base=""):
-        self.doc = doc
-        self.base = base
-
-    def at(self, base):
-        """Cells of a table row whose keys are written relative to ``base`` (the row's data-base)."""
-        return _Cells(self.doc, base)
-
-    def emit(self, key):
-        """The data-key as written: relative to the row base (a leading '.') where it lies under it."""
-        if self.base and key.startswith(self.base + "."):
-            return key[len(self.base):]
-        return key
-
-    def v(self, key):
-        return get(self.doc, key)
-
-    def num(self, key, beyond_key=None):
-        if not _has(self.doc, key):  # not in the document at all (e.g. a route that does not apply)
-            return f'<td class="na">{DASH}</td>'
-        v = self.v(key)
-        if v is None and beyond_key is not None:
-            b = self.v(beyond_key)
-            return f'<td class="num gt" data-key="{_esc(self.emit(beyond_key))}">&gt; {format_number(b)}</td>'
-        if v is None:
-            return f'<td class="num null" data-key="{_esc(self.emit(key))}">{DASH}</td>'
-        if isinstance(v, bool) or not isinstance(v, (int, float)):
-            raise TypeError(f"{key}: not a number ({v!r})")
-        return f'<td class="num" data-key="{_esc(self.emit(key))}">{format_number(v)}</td>'
-
-    def txt(self, key, none=DASH, cls="txt"):
-        if not _has(self.doc, key):
-            return f'<td class="na">{_esc(none)}</td>'
-        v = self.v(key)
-        if v is None:
-            return f'<td class="{cls} null" data-key="{_esc(self.emit(key))}">{_esc(none)}</td>'
-        if isinstance(v, bool):
-            return self.flag(key, yes="true", no="false", neutral=True)
-        if isinstance(v, (int, float)):
-            return self.num(key)
-        return f'<td class="{cls}" data-key="{_esc(self.emit(key))}">{_esc(str(v))}</td>'
-
-    def flag(self, key, yes="meets", no="SHORT", none=DASH, neutral=False):
-        if not _has(self.doc, key):
-            return f'<td class="na">{DASH}</td>'
-        v = self.v(key)
-        word = {True: yes, False: no, None: none}[v]
-        cls = {True: "flag ok", False: "flag bad", None: "flag null"}[v] if not neutral else \
-            ("flag null" if v is None else "flag")
-        return (f'<td class="{cls}" data-key="{_esc(self.emit(key))}" data-true="{_esc(yes)}" '
-                f'data-false="{_esc(no)}">{_esc(word)}</td>')
+def std_cell(doc, key):
+    """A standard-fire time [min]: null means beyond the horizon (shown '> horizon', keyed to it)."""
+    v = get(doc, key)
+    if v is None:
+        h = "analysis.standard_horizon_min"
+        return {"text": f"> {P.fmt(get(doc, h), 'input')}", "key": h, "cls": "num gt"}
+    return cell(doc, key, "time")
 
 
-def _lbl(text):
-    return f'<td class="lbl">{_esc(text)}</td>'
+def _span(c):
+    """A cell as an inline element (same classes and key), for values set in running text."""
+    from markupsafe import Markup
+
+    key = f' data-key="{_esc(c["key"])}"' if c.get("key") else ""
+    return Markup(f'<span class="{_esc(c["cls"])}"{key}>{_esc(c["text"])}</span>')
 
 
-def _sym(markup):
-    """A symbol cell; ``markup`` is static, trusted markup (sub/sup only)."""
-    return f'<td class="sym">{markup}</td>'
+def text_cell(text, cls="txt"):
+    return {"text": text, "key": None, "cls": cls}
 
 
-def _unit(markup):
-    return f'<td class="unit">{markup}</td>'
+def flag_cell(doc, key, yes, no, none=DASH):
+    v = get(doc, key)
+    word = {True: yes, False: no}.get(v, none)
+    cls = {True: "flag ok", False: "flag bad"}.get(v, "flag null")
+    return {"text": word, "key": key, "cls": cls}
 
 
-def _ref(text):
-    return f'<td class="ref">{_esc(text)}</td>'
+# ----------------------------------------------------------------------------------------------
+# symbols and units as markup (the text is escaped first)
+
+_GREEK = {"alpha": "\u03b1", "beta": "\u03b2", "gamma": "\u03b3", "Gamma": "\u0393", "delta": "\u03b4",
+          "Delta": "\u0394", "epsilon": "\u03b5", "eta": "\u03b7", "theta": "\u03b8", "lambda": "\u03bb",
+          "mu": "\u03bc", "rho": "\u03c1", "phi": "\u03c6", "chi": "\u03c7", "psi": "\u03c8", "kappa": "\u03ba",
+          "sigma": "\u03c3", "tau": "\u03c4", "omega": "\u03c9", "Omega": "\u03a9", "Phi": "\u03a6"}
+_UNIT_TOKENS = {"m2": "m\u00b2", "m3": "m\u00b3", "C": "\u00b0C", "-": "\u2013", "degC": "\u00b0C"}
 
 
-def _plain(text, cls="txt"):
-    return f'<td class="{cls}">{_esc(text)}</td>'
+def _esc(s) -> str:
+    from markupsafe import escape
+
+    return str(escape(s))
 
 
-class _Row(list):
-    """Cells of one table row whose keys are relative to ``base`` (written as the row's data-base)."""
+def symbol_html(s):
+    """A plain-text symbol as markup: 'q_f,d' -> q<sub>f,d</sub>, 'Gamma_lim' -> Γ<sub>lim</sub>."""
+    from markupsafe import Markup
 
-    def __init__(self, base, cells):
-        super().__init__(cells)
-        self.base = base
-
-
-def _tr(r):
-    if isinstance(r, _Row):
-        return f'<tr data-base="{_esc(r.base)}">' + "".join(r) + "</tr>"
-    return "<tr>" + "".join(r) + "</tr>"
-
-
-def _table(head, rows, cls="calc", src=None, caption=None):
-    out = [f'<table class="{cls}">']
-    if caption:
-        out.append(f"<caption>{caption}</caption>")
-    out.append("<thead><tr>" + "".join(f"<th>{h}</th>" for h in head) + "</tr>")
-    if src:
-        out.append('<tr class="src">' + "".join(f"<th>{_esc(s)}</th>" for s in src) + "</tr>")
-    out.append("</thead><tbody>")
-    out += [_tr(r) for r in rows]
-    out.append("</tbody></table>")
-    return "\n".join(out)
+    if not s:
+        return Markup("")
+    base, _, sub = str(s).partition("_")
+    base = _GREEK.get(base, base)
+    sub = _GREEK.get(sub, sub)
+    out = _esc(base) + (f"<sub>{_esc(sub)}</sub>" if sub else "")
+    return Markup(out)
 
 
-# units and symbols (static markup)
-U_M = "m"
-U_M2 = "m²"
-U_M05 = "m½"
-U_B = "J/(m² s½ K)"
-U_MJ = "MJ/m²"
-U_MIN = "min"
-U_C = "°C"
-U_NONE = "–"
-U_INV_M = "1/m"
-U_MM = "mm"
+def unit_html(u):
+    """A plain-text unit as markup: 'J/(m2 s^0.5 K)' -> J/(m² s<sup>0.5</sup> K), 'C' -> °C, '-' -> –."""
+    from markupsafe import Markup
+
+    if not u:
+        return Markup("")
+    u = str(u)
+    if u in _UNIT_TOKENS:
+        return Markup(_esc(_UNIT_TOKENS[u]))
+    parts = re.split(r"([A-Za-z]+[0-9]*(?:\^[0-9.\-]+)?)", u)
+    out = []
+    for p in parts:
+        m = re.fullmatch(r"([A-Za-z]+)([0-9]*)(?:\^([0-9.\-]+))?", p)
+        if not m:
+            out.append(_esc(p))
+            continue
+        word, digits, power = m.groups()
+        if word == "C" and not digits and not power:
+            out.append("\u00b0C")
+            continue
+        tok = _UNIT_TOKENS.get(word + digits, word + ({"2": "\u00b2", "3": "\u00b3"}.get(digits, digits)))
+        out.append(_esc(tok) + (f"<sup>{_esc(power)}</sup>" if power else ""))
+    return Markup("".join(out))
+
+
+def css_string(text) -> str:
+    """``text`` as a quoted CSS string, every character outside a plain set written as a hex escape
+    (so that no case text can end the string, the rule or the style element)."""
+    out = []
+    for ch in str(text):
+        if ch.isascii() and (ch.isalnum() or ch in " .,:;-_/()+#=[]"):
+            out.append(ch)
+        else:
+            out.append(f"\\{ord(ch):06x}")
+    return '"' + "".join(out) + '"'
 
 
 # ----------------------------------------------------------------------------------------------
 # sections
 
 
-def _stamp(doc, c):
-    r = doc["run"]
-    rows = [[_lbl("calculation"), c.txt("run.command"), _lbl("steelfire version"), c.txt("run.steelfire_version")],
-            [_lbl("run (UTC)"), c.txt("run.utc"), _lbl("input file"), c.txt("run.case_file", none="(case built in memory)")],
-            [_lbl("input SHA-256"), c.txt("run.case_sha256", cls="txt hash").replace("<td ", '<td colspan="3" ', 1)]]
-    if r.get("fire_table_file"):
-        rows.append([_lbl("fire table"), c.txt("run.fire_table_file"), _lbl("its SHA-256"),
-                     c.txt("run.fire_table_sha256", cls="txt hash")])
-    return '<table class="stamp">' + "".join("<tr>" + "".join(x) + "</tr>" for x in rows) + "</table>"
+_RECORD_FIELDS = (("project", "project"), ("job_number", "job number"), ("revision", "revision"),
+                  ("date", "date"), ("prepared_by", "prepared by"), ("checked_by", "checked by"))
 
 
-def _pagehead(doc):
-    r = doc["run"]
-    h = (r["case_sha256"] or "")[:16]
-    bits = [f"steelfire {r['steelfire_version']}", r["utc"]]
-    if h:
-        bits.append(f"input sha256 {h}…")
-    return (f'<div class="pagehead"><span>{_esc(doc["title"])}</span>'
-            f'<span>{_esc(" · ".join(bits))}</span></div>')
+def _record(doc):
+    rec = doc.get("record") or {}
+    fields = [{"label": lab, "value": (str(rec[k]) if rec.get(k) not in (None, "") else None), "key": f"record.{k}"}
+              for k, lab in _RECORD_FIELDS]
+    notes = rec.get("notes")
+    run = doc.get("run") or {}
+    stamp = [("calculation", f"steelfire {run.get('command') or ''}".strip()),
+             ("steelfire version", run.get("steelfire_version") or doc.get("steelfire_version")),
+             ("run (UTC)", run.get("utc")),
+             ("case file", run.get("case_file") or "case built in memory")]
+    if run.get("fire_table_file"):
+        stamp.append(("fire table", run["fire_table_file"]))
+    hashes = [("case file SHA-256", run.get("case_sha256"))]
+    if run.get("fire_table_file"):
+        hashes.append(("fire table SHA-256", run.get("fire_table_sha256")))
+    return {"fields": fields, "notes": None if notes in (None, "") else str(notes),
+            "stamp": [(a, b) for a, b in stamp if b], "hashes": [(a, b) for a, b in hashes if b]}
 
 
-def _summary(doc, c, warn_no, caution_no):
-    s = doc["summary"]
-    rows = [[_lbl("members checked"), c.num("summary.members")],
-            [_lbl("pass the design fire (peak steel temperature ≤ critical)"), c.num("summary.pass_design_fire")],
-            [_lbl("fail the design fire"), c.num("summary.fail_design_fire")],
-            [_lbl("with a required standard-fire period"), c.num("summary.with_required_period")],
-            [_lbl("meet their required period under the standard fire"), c.num("summary.meet_required_period")],
-            [_lbl("short of their required period"), c.num("summary.short_of_required_period")],
-            [_lbl("pass the design fire and meet their period"), c.num("summary.ok")],
-            [_lbl("with an unconservative equivalence route (> 10 % below the direct answer)"),
-             c.num("summary.unconservative_equivalence")]]
-    if s.get("sized"):
-        rows += [[_lbl("sized"), c.num("summary.sized")],
-                 [_lbl("sizing not achievable"), c.num("summary.sizing_not_achievable")]]
-    rows.append([_lbl(f"warnings (section {warn_no})"), c.num("summary.warnings")])
-    verdict = ("Every member passes the design fire and meets its required period." if s["all_ok"] else
-               "Not every member passes the design fire and meets its required period: see section 3.")
-    out = [f'<p class="verdict {"ok" if s["all_ok"] else "bad"}">{_esc(verdict)}</p>',
-           _table(["", "members"], rows, cls="calc summary")]
-    if doc["out_of_scope"]:
-        items = "".join(f"<li>{_esc(x)}</li>" for x in doc["out_of_scope"])
-        out.insert(0, '<div class="oos"><strong>Computed outside the scope of the method '
-                      f'(analysis.allow_out_of_scope = true).</strong><ul>{items}</ul></div>')
-    f = doc["fire"]
-    crv = _esc(f["curve"])
-    out.append(f'<p class="note">Design fire: <b>{crv}</b> ({_esc(_CURVE_SOURCE.get(f["curve"], ""))}). '
-               f"Read the results with the warnings (section {warn_no}) and the cautions (section {caution_no}).</p>")
-    return "\n".join(out)
+def _page_marks(doc):
+    """The running header and footer of printed pages, as CSS strings."""
+    rec = doc.get("record") or {}
+    run = doc.get("run") or {}
+    title = P.clip_name(doc.get("title") or "", HEADER_TITLE_MAX)
+    right = []
+    if rec.get("job_number"):
+        right.append(f"job {rec['job_number']}")
+    if rec.get("revision"):
+        right.append(f"rev {rec['revision']}")
+    if not right:
+        right.append(f"steelfire {run.get('command') or ''}".strip())
+    foot = [f"steelfire {run.get('steelfire_version') or doc.get('steelfire_version') or ''}".strip()]
+    if run.get("utc"):
+        foot.append(run["utc"])
+    if run.get("case_file"):
+        foot.append(P.clip_name(run["case_file"], 40))
+    if run.get("case_sha256"):
+        foot.append("SHA-256 " + run["case_sha256"][:12])
+    from markupsafe import Markup
+
+    return {"top_left": Markup(css_string(title)), "top_right": Markup(css_string(" \u00b7 ".join(right))),
+            "bottom_left": Markup(css_string(" \u00b7 ".join(foot)))}
 
 
-def _fire_inputs(doc, c):
+def _summary(doc, sizing):
+    c = P.counts(doc)
+    rows = P.sizing_rows(doc) if sizing else []
+    verdicts = []
+    if rows:
+        spec_ok = all(r.specified_ok is True for r in rows)
+        prop_ok = all(r.proposed_ok for r in rows)
+        lines = P.verdict_lines(doc, True)
+        verdicts.append({"label": "Specified design", "ok": spec_ok, "text": lines[0].split(": ", 1)[1]})
+        verdicts.append({"label": "Proposed design", "ok": prop_ok, "text": lines[1].split(": ", 1)[1]})
+    else:
+        ok = c["ok"] == c["members"]
+        verdicts.append({"label": "Verdict", "ok": ok, "text": P.verdict_lines(doc, False)[0]})
+    counts = [("members checked", c["members"]),
+              ("pass the design fire (peak steel temperature \u2264 critical)", c["pass"]),
+              ("fail the design fire", c["fail"]),
+              ("with a required standard-fire period", c["with_period"]),
+              ("short of their required period under the standard fire", c["short"])]
+    if rows:
+        counts.append(("sizing not achievable", sum(1 for r in rows if r.achievable is False)))
+    conflicts = [{"name": m["name"], "text": x["text"]} for m in doc["members"] for x in P.route_conflicts(doc, m)]
+    return {"verdicts": verdicts, "counts": counts, "shortfalls": P.shortfalls(doc), "conflicts": conflicts,
+            "out_of_scope": list(doc.get("out_of_scope") or []), "cautions": P.short_cautions(doc)}
+
+
+def _row(doc, label, key, unit="", source="", kind=None, symbol=""):
+    return {"label": label, "symbol": symbol_html(symbol), "value": cell(doc, key, kind), "unit": unit_html(unit),
+            "source": source}
+
+
+def _fire_inputs(doc):
     inp = doc.get("inputs")
-    out = []
     if not inp:
-        return '<p class="note">The case inputs are not recorded (no case file was given).</p>'
+        return None
+    out = {"compartment": [], "openings": [], "surfaces": [], "fire_load": []}
     comp = inp.get("compartment")
     if comp:
-        rows = [[_lbl("floor area"), _sym("A<sub>f</sub>"), c.num("inputs.compartment.floor_area_m2"), _unit(U_M2),
-                 _ref("case [compartment]")],
-                [_lbl("height, floor to ceiling"), _sym("H"), c.num("inputs.compartment.height_m"), _unit(U_M),
-                 _ref("case [compartment]")],
-                [_lbl("enclosure area, openings included"), _sym("A<sub>t</sub>"),
-                 c.num("inputs.compartment.boundary_area_m2"), _unit(U_M2), _ref("EN 1991-1-2 Annex A (3)")],
-                [_lbl("horizontal (roof) openings"), _sym("A<sub>h</sub>"), c.num("inputs.compartment.roof_opening_area_m2"),
-                 _unit(U_M2), _ref("Annex F only; Annex A does not cover them")]]
+        k = "inputs.compartment."
+        out["compartment"] = [
+            _row(doc, "floor area", k + "floor_area_m2", "m2", "", "input", "A_f"),
+            _row(doc, "height, floor to ceiling", k + "height_m", "m", "", "input", "H"),
+            _row(doc, "enclosure area, openings included", k + "boundary_area_m2", "m2", "", "input", "A_t"),
+            _row(doc, "horizontal (roof) openings", k + "roof_opening_area_m2", "m2", "", "input", "A_h")]
         if comp.get("thermal_inertia") is not None:
-            rows.append([_lbl("thermal inertia of the enclosure (given)"), _sym("b"),
-                         c.num("inputs.compartment.thermal_inertia"), _unit(U_B),
-                         _ref("EN 1991-1-2 Annex A (3), b = √(ρcλ)")])
-        out.append("<h3>Compartment</h3>")
-        out.append(_table(["quantity", "symbol", "value", "unit", "source"], rows))
-        if comp["openings"]:
-            rows = []
-            for i, _ in enumerate(comp["openings"]):
-                k = f"inputs.compartment.openings.{i}"
-                rows.append([_plain(f"group {i + 1}", "lbl"), c.num(k + ".width_m"), c.num(k + ".height_m"),
-                             c.num(k + ".count")])
-            out.append("<h3>Vertical openings</h3>")
-            out.append(_table(["group", "width [m]", "height h<sub>i</sub> [m]", "count"], rows))
-        if comp["surfaces"]:
-            rows = []
-            for i, srf in enumerate(comp["surfaces"]):
-                for j, _ in enumerate(srf["layers"]):
-                    k = f"inputs.compartment.surfaces.{i}"
-                    kl = f"{k}.layers.{j}"
-                    rows.append([_plain(f"surface {i + 1}" if j == 0 else "", "lbl"),
-                                 c.num(k + ".area_m2") if j == 0 else _plain(""),
-                                 _plain(f"layer {j + 1}", "lbl"), c.num(kl + ".thickness_m"), c.num(kl + ".density"),
-                                 c.num(kl + ".conductivity"), c.num(kl + ".specific_heat")])
-            out.append("<h3>Enclosure surfaces (layers from the fire side)</h3>")
-            out.append(_table(["surface", "area A<sub>j</sub> [m²]", "layer", "thickness s [m]", "density ρ [kg/m³]",
-                               "conductivity λ [W/(m K)]", "specific heat c [J/(kg K)]"], rows,
-                              src=["", "", "", "EN 1991-1-2 Annex A (8)-(9), b of each surface, eq (A.9) weighting",
-                                   "", "", ""]))
+            out["compartment"].append(_row(doc, "thermal inertia (given)", k + "thermal_inertia", "J/(m2 s^0.5 K)",
+                                           "", "input", "b"))
+        for i, _ in enumerate(comp.get("openings") or []):
+            b = f"{k}openings.{i}."
+            out["openings"].append([text_cell(f"{i + 1}", "lbl"), cell(doc, b + "width_m", "input"),
+                                    cell(doc, b + "height_m", "input"), cell(doc, b + "count", "count")])
+        for i, s in enumerate(comp.get("surfaces") or []):
+            for j, _ in enumerate(s.get("layers") or []):
+                b = f"{k}surfaces.{i}.layers.{j}."
+                out["surfaces"].append([text_cell(f"{i + 1}" if j == 0 else "", "lbl"),
+                                        cell(doc, f"{k}surfaces.{i}.area_m2", "input") if j == 0 else text_cell(""),
+                                        text_cell(f"{j + 1}", "lbl"), cell(doc, b + "thickness_m", "input"),
+                                        cell(doc, b + "density", "input"), cell(doc, b + "conductivity", "input"),
+                                        cell(doc, b + "specific_heat", "input")])
     fl = inp.get("fire_load")
     if fl:
+        k = "inputs.fire_load."
         rows = []
         if fl.get("characteristic_MJ_m2") is not None:
-            rows.append([_lbl("characteristic fire load density"), _sym("q<sub>f,k</sub>"),
-                         c.num("inputs.fire_load.characteristic_MJ_m2"), _unit(U_MJ),
-                         _ref("EN 1991-1-2 Annex E, Table E.4 (by occupancy)")])
-            rows.append([_lbl("combustion factor"), _sym("m"), c.num("inputs.fire_load.combustion_factor"), _unit(U_NONE),
-                         _ref("EN 1991-1-2 Annex E, combustion behaviour")])
-            if isinstance(fl.get("area_factor"), str):
-                rows.append([_lbl("area factor (from Table E.1, value used in section 2.2)"), _sym("δ<sub>q1</sub>"),
-                             c.txt("inputs.fire_load.area_factor"), _unit(U_NONE), _ref("EN 1991-1-2 Table E.1")])
-            else:
-                rows.append([_lbl("area factor (given)"), _sym("δ<sub>q1</sub>"), c.num("inputs.fire_load.area_factor"),
-                             _unit(U_NONE), _ref("EN 1991-1-2 Table E.1")])
-            rows.append([_lbl("occupancy factor"), _sym("δ<sub>q2</sub>"), c.num("inputs.fire_load.occupancy_factor"),
-                         _unit(U_NONE), _ref("EN 1991-1-2 Table E.1")])
-            rows.append([_lbl("active fire-fighting measures"), _sym("δ<sub>n</sub> = Π δ<sub>ni</sub>"),
-                         c.num("inputs.fire_load.measures_factor"), _unit(U_NONE), _ref("EN 1991-1-2 Table E.2")])
+            rows += [_row(doc, "characteristic fire load density", k + "characteristic_MJ_m2", "MJ/m2",
+                          "Table E.4", "input", "q_f,k"),
+                     _row(doc, "combustion factor", k + "combustion_factor", "-", "E.3", "input", "m"),
+                     _row(doc, "fire activation risk, compartment size" +
+                          (" (by Table E.1)" if isinstance(fl.get("area_factor"), str) else ""),
+                          k + "area_factor", "-", "Table E.1", "input", "delta_q1"),
+                     _row(doc, "fire activation risk, occupancy", k + "occupancy_factor", "-", "Table E.1", "input",
+                          "delta_q2"),
+                     _row(doc, "active fire-fighting measures", k + "measures_factor", "-", "Table E.2", "input",
+                          "delta_n")]
         if fl.get("design_MJ_m2") is not None:
-            rows.append([_lbl("design fire load density (given)"), _sym("q<sub>f,d</sub>"),
-                         c.num("inputs.fire_load.design_MJ_m2"), _unit(U_MJ), _ref("case input")])
-        rows.append([_lbl("fire growth rate"), _sym(""), c.txt("inputs.fire_load.growth"), _unit(""),
-                     _ref("EN 1991-1-2 Table E.5, sets t_lim (Annex A (10))")])
-        out.append("<h3>Fire load</h3>")
-        out.append(_table(["quantity", "symbol", "value", "unit", "source"], rows))
-    rows = [[_lbl("design fire curve"), c.txt("inputs.fire.curve"), _unit(""),
-             _ref(_CURVE_SOURCE.get(inp["fire"]["curve"], ""))],
-            [_lbl("duration of the design fire, cooling included"), c.num("inputs.fire.duration_min"), _unit(U_MIN),
-             _ref("case [fire] duration_min")]]
-    if inp["fire"].get("file"):
-        rows.append([_lbl("gas temperature table"), c.txt("inputs.fire.file"), _unit(""), _ref("case [fire] file")])
-    if inp["fire"].get("convection_coefficient") is not None:
-        rows.append([_lbl("convective coefficient (given)"), c.num("inputs.fire.convection_coefficient"),
-                     _unit("W/(m² K)"), _ref("case [fire] convection_coefficient")])
-    out.append("<h3>Design fire settings</h3>")
-    out.append(_table(["quantity", "value", "unit", "source"], rows))
-    return "\n".join(out)
+            rows.append(_row(doc, "design fire load density (given)", k + "design_MJ_m2", "MJ/m2", "", "input",
+                             "q_f,d"))
+        if fl.get("growth") is not None:
+            rows.append(_row(doc, "fire growth rate", k + "growth", "", "Table E.5"))
+        out["fire_load"] = rows
+    if not any(out.values()):
+        return None
+    return out
 
 
-def _fire_values(doc, c):
-    f = doc["fire"]
-    inp = doc.get("inputs") or {}
-    fl = inp.get("fire_load") or {}
-    comp = inp.get("compartment") or {}
+def _fire_values(doc):
+    """The design fire's intermediate values: the fire model's own rows (``fire_rows``), then the peak."""
     rows = []
-
-    def add(label, sym, key, unit, ref, kind="num"):
-        if get(doc, key) is None:
-            return
-        cell = c.num(key) if kind == "num" else c.txt(key)
-        rows.append([_lbl(label), _sym(sym), cell, _unit(unit), _ref(ref)])
-
-    for r in doc.get("fire_rows", []):  # the fire model's own rows, in its order
+    shown = set()
+    for r in doc.get("fire_rows") or []:
         key = "fire." + r["key"]
-        kind = "txt" if isinstance(f.get(r["key"]), str) else "num"
-        add(r["label"], _esc(r["symbol"]), key, r["unit"], r["clause"], kind=kind)
-    add("peak gas temperature", "θ<sub>g,max</sub>", "fire.peak_gas_temperature_C", U_C,
-        "maximum on the time grid (t_max and t_lim are put on the grid)")
-    add("time of the peak gas temperature", "", "fire.time_of_peak_gas_min", U_MIN, "")
-    add("duration analysed", "", "fire.duration_min", U_MIN, "case [fire] duration_min")
-    given_alpha = ((inp.get("fire") or {}).get("convection_coefficient") is not None)
-    add("convective heat transfer coefficient", "α<sub>c</sub>", "fire.convection_coefficient", "W/(m² K)",
-        "case input" if given_alpha else _ALPHA_SOURCE.get(f["curve"], ""))
-    rows.insert(0, [_lbl("design fire curve"), _sym(""), c.txt("fire.curve"), _unit(""),
-                    _ref(_CURVE_SOURCE.get(f["curve"], ""))])
-    out = [_table(["quantity", "symbol", "value", "unit", "source"], rows)]
-    if f["curve"] == "parametric":
-        cv = "code_values."
-        lim = [("opening factor O", "fire.opening_factor_m05", "annex_a_opening_factor_min",
-                "annex_a_opening_factor_max", U_M05),
-               ("thermal inertia b", "fire.thermal_inertia", "annex_a_thermal_inertia_min",
-                "annex_a_thermal_inertia_max", U_B),
-               ("fire load q_t,d", "fire.total_area_fire_load_MJ_m2", "annex_a_fire_load_min_MJ_m2",
-                "annex_a_fire_load_max_MJ_m2", U_MJ)]
-        rows = [[_lbl(a), c.num(k), c.num(cv + lo), c.num(cv + hi), _unit(u)] for a, k, lo, hi, u in lim
-                if _has(doc, cv + lo) and _has(doc, cv + hi)]
-        if comp:
-            for a, k, hi, u in (("floor area A_f", "inputs.compartment.floor_area_m2", "annex_a_floor_area_max_m2", U_M2),
-                                ("height H", "inputs.compartment.height_m", "annex_a_height_max_m", U_M)):
-                if _has(doc, cv + hi):
-                    rows.append([_lbl(a), c.num(k), _plain("", "txt"), c.num(cv + hi), _unit(u)])
-        scope = ("Within the scope of Annex A." if not doc["out_of_scope"] else
-                 "OUTSIDE the scope of Annex A: see the banner in section 1 and the warnings.")
-        out.append("<h3>Scope of Annex A (EN 1991-1-2 Annex A (1)-(4))</h3>")
-        out.append(_table(["quantity", "value", "lower limit", "upper limit", "unit"], rows))
-        out.append(f'<p class="note">{_esc(scope)} Annex A holds for mainly cellulosic fire loads and compartments '
-                   "without roof openings.</p>")
-    return "\n".join(out)
-
-
-def _members(doc, c0):
-    c = c0
-    ms = doc["members"]
-    out = []
-    rows = []
-    for i, m in enumerate(ms):
-        k = f"members.{i}."
-        c = c0.at(f"members.{i}")
-        rows.append(_Row(f"members.{i}", [
-                     c.txt(k + "name", cls="txt name"), c.txt(k + "kind"), c.num(k + "section_factor_per_m"),
-                     c.num(k + "shadow_factor"), c.txt(k + "protection", none="bare steel"), c.num(k + "thickness_mm"),
-                     c.num(k + "utilisation"), c.num(k + "critical_temperature_C"),
-                     c.txt(k + "critical_temperature_source", cls="txt ref"), c.num(k + "required_minutes")]))
-    out.append("<h3>Members and their inputs</h3>")
-    out.append(_table(["member", "kind", "A/V [1/m]", "k<sub>sh</sub> [–]", "protection", "d<sub>p</sub> [mm]",
-                       "μ<sub>0</sub> [–]", "θ<sub>a,cr</sub> [°C]", "θ<sub>a,cr</sub> from", "t<sub>req</sub> [min]"],
-                      rows, cls="calc members",
-                      src=["", "", "A_m/V bare, A_p/V protected (EN 1993-1-2 4.2.5)", "EN 1993-1-2 eq (4.26)", "", "",
-                           "EN 1993-1-2 4.2.4", "eq (4.22) or given", "", "standard fire"]))
-    rows = []
-    horizon = "analysis.standard_horizon_min"
-    for i, m in enumerate(ms):
-        k = f"members.{i}."
-        c = c0.at(f"members.{i}")
-        rows.append(_Row(f"members.{i}", [c.txt(k + "name", cls="txt name"), c.num(k + "peak_steel_temperature_C"),
-                     c.num(k + "time_of_peak_steel_min"), c.num(k + "critical_temperature_C"), c.num(k + "margin_C"),
-                     c.flag(k + "passes", yes="PASS", no="FAIL"),
-                     c.num(k + "standard_fire_time_to_critical_min", beyond_key=horizon),
-                     c.num(k + "required_minutes"), c.flag(k + "meets_required_period")]))
-    out.append("<h3>Verdicts</h3>")
-    out.append(_table(["member", "θ<sub>a,max</sub> [°C]", "at [min]", "θ<sub>a,cr</sub> [°C]", "margin [°C]",
-                       "design fire", "t<sub>cr,std</sub> [min]", "t<sub>req</sub> [min]", "period"],
-                      rows, cls="calc members",
-                      src=["", "EN 1993-1-2 eq (4.25) bare, (4.27) protected", "", "", "θ_a,cr − θ_a,max",
-                           "θ_a,max ≤ θ_a,cr", "standard fire, EN 1991-1-2 eq (3.4)", "", "t_cr,std ≥ t_req"]))
-    out.append('<p class="note">Peak steel temperatures are taken over the whole design fire, cooling phase '
-               "included; t<sub>cr,std</sub> is the time to the critical temperature under the standard fire "
-               f"(&gt; horizon: not reached within analysis.standard_horizon_min).</p>")
-    c = c0
-    mats = (doc.get("inputs") or {}).get("materials") or []
-    if mats:
-        rows = []
-        for j, mt in enumerate(mats):
-            k = f"inputs.materials.{j}."
-            rc = c.at(f"inputs.materials.{j}")
-            if isinstance(mt["conductivity"], list):
-                parts = []
-                for n, _ in enumerate(mt["conductivity"]):
-                    kk = f"{k}conductivity.{n}."
-                    parts.append(f'<span class="num" data-key="{_esc(rc.emit(kk + "0"))}">'
-                                 f'{format_number(get(doc, kk + "0"))}</span> °C: '
-                                 f'<span class="num" data-key="{_esc(rc.emit(kk + "1"))}">'
-                                 f'{format_number(get(doc, kk + "1"))}</span>')
-                cond = '<td class="txt">' + "; ".join(parts) + "</td>"
-            else:
-                cond = rc.num(k + "conductivity")
-            rows.append(_Row(f"inputs.materials.{j}", [rc.txt(k + "name", cls="txt name"), rc.num(k + "density"), cond,
-                                                       rc.num(k + "specific_heat"), rc.num(k + "moisture_percent")]))
-        out.append("<h3>Protection materials</h3>")
-        out.append(_table(["material", "density ρ<sub>p</sub> [kg/m³]", "conductivity λ<sub>p</sub> [W/(m K)]",
-                           "specific heat c<sub>p</sub> [J/(kg K)]", "moisture [%]"], rows,
-                          src=["", "EN 1993-1-2 eq (4.27)", "constant, or by steel temperature", "",
-                               "delay, EN 1993-1-2 4.2.5.2(2)"]))
-        out.append('<p class="note">Use protection products only within their own assessed ranges; the values '
-                   "here are those of the case.</p>")
-    return "\n".join(out)
-
-
-def _equivalence(doc, c0):
-    c = c0
-    ms = doc["members"]
-    out = []
-    rows = []
-    horizon = "analysis.standard_horizon_min"
-    for i, m in enumerate(ms):
-        k = f"members.{i}."
-        c = c0.at(f"members.{i}")
-        e = m.get("equivalence") or {}
-        unc = ", ".join(_ROUTE_LABEL.get(r, r) for r in e.get("unconservative") or []) or DASH
-        ke = k + "equivalence."
-        if not e:
-            rows.append(_Row(f"members.{i}", [c.txt(k + "name", cls="txt name"), c.num(k + "required_minutes")] +
-                             [_plain(DASH)] * 9))
+        if get(doc, key) is None:
             continue
-        rows.append(_Row(f"members.{i}", [c.txt(k + "name", cls="txt name"), c.num(k + "required_minutes"),
-                     c.num(k + "standard_fire_time_to_critical_min", beyond_key=horizon),
-                     c.num(ke + "annex_f_min"), c.num(ke + "annex_f_small_compartment_min"), c.num(ke + "cib_w14_min"),
-                     c.num(ke + "equal_temperature_min", beyond_key=horizon),
-                     f'<td class="txt{" warn" if e.get("unconservative") else ""}">{_esc(unc)}</td>',
-                     c.flag(ke + "meets_required.annex_f", yes="yes", no="no"),
-                     c.flag(ke + "meets_required.cib_w14", yes="yes", no="no"),
-                     c.flag(ke + "meets_required.equal_temperature", yes="yes", no="no")]))
-    out.append("<h3>Equivalent times per member</h3>")
-    out.append(_table(["member", "t<sub>req</sub> [min]", "t<sub>cr,std</sub> [min]", "Annex F t<sub>e,d</sub> [min]",
-                       "(F.3) t<sub>e,d</sub> [min]", "CIB W14 t<sub>e</sub> [min]", "equal temp. t<sub>e</sub> [min]",
-                       "unconservative", "F ≤ t<sub>req</sub>", "CIB ≤ t<sub>req</sub>", "equal ≤ t<sub>req</sub>"],
-                      rows, cls="calc members",
-                      src=["", "", "standard fire", "EN 1991-1-2 eq (F.1)", "eq (F.3), A_f < 100 m²", "CIB W14",
-                           "direct route", "> 10 % below direct", "", "", ""]))
-    out.append('<p class="note">The equal-temperature route is the direct one: the standard-fire time at which the '
-               "member reaches the peak temperature it reaches in the design fire. A route more than 10 % below it "
-               "is flagged unconservative. The last three columns say whether each equivalent time is within the "
-               "required period (the design fire is then no more severe than the required standard-fire period by "
-               "that route).</p>")
-    c = c0
-    fac = (doc["fire"].get("equivalence_factors") or {})
+        shown.add(r["key"])
+        rows.append({"label": r.get("label") or r["key"], "symbol": symbol_html(r.get("symbol")),
+                     "value": cell(doc, key, P.kind_of(r["key"], r.get("unit"))), "unit": unit_html(r.get("unit")),
+                     "source": r.get("clause") or ""})
+    tail = [("peak gas temperature", "theta_g,max", "peak_gas_temperature_C", "C", "maximum on the time grid"),
+            ("time of the peak gas temperature", "", "time_of_peak_gas_min", "min", ""),
+            ("duration analysed", "", "duration_min", "min", "case [fire] duration_min"),
+            ("convective heat transfer coefficient", "alpha_c", "convection_coefficient", "W/(m2 K)",
+             "case [fire] convection_coefficient"
+             if get(doc, "inputs.fire.convection_coefficient") is not None else
+             "code value for the curve (alpha_c_*, section of code values)")]
+    if get(doc, "inputs.fire.file") and not any(get(doc, "fire." + r["key"]) == get(doc, "inputs.fire.file")
+                                                for r in doc.get("fire_rows") or []):
+        rows.append(_row(doc, "gas temperature table", "inputs.fire.file", "", "case [fire] file"))
+    for label, sym, k, unit, src in tail:
+        if k in shown or get(doc, "fire." + k) is None:
+            continue
+        kind = "input" if k in ("duration_min", "convection_coefficient") else None
+        rows.append(_row(doc, label, "fire." + k, unit, src, kind, sym))
+    return rows
+
+
+def _members(doc):
+    ms = doc["members"]
+
+    def any_of(key):
+        return any(m.get(key) is not None for m in ms)
+
+    opt = [k for k in ("section", "exposure", "encasement") if any_of(k)]
+    show_ksh, show_mu = any_of("shadow_factor"), any_of("utilisation")
+    head = ["member", "kind"] + opt + ["A/V [1/m]"] + (["k<sub>sh</sub> [\u2013]"] if show_ksh else []) + \
+        ["protection", "d<sub>p</sub> [mm]"] + (["\u03bc<sub>0</sub> [\u2013]"] if show_mu else []) + \
+        ["\u03b8<sub>a,cr</sub> [\u00b0C]", "\u03b8<sub>a,cr</sub> from", "t<sub>req</sub> [min]"]
+    inputs, verdicts = [], []
+    for i, m in enumerate(ms):
+        k = f"members.{i}."
+        row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "kind")]
+        row += [cell(doc, k + o) for o in opt]
+        row.append(cell(doc, k + "section_factor_per_m"))
+        if show_ksh:
+            row.append(cell(doc, k + "shadow_factor"))
+        row.append(cell(doc, k + "protection", none="bare steel") if m.get("protection") is not None
+                   else text_cell("bare steel"))
+        row.append(cell(doc, k + "thickness_mm", "input"))
+        if show_mu:
+            row.append(cell(doc, k + "utilisation"))
+        row += [cell(doc, k + "critical_temperature_C", "temperature"),
+                {**cell(doc, k + "critical_temperature_source"), "cls": "txt ref"},
+                cell(doc, k + "required_minutes", "input")]
+        inputs.append(row)
+        verdicts.append([{**cell(doc, k + "name"), "cls": "txt name"},
+                         cell(doc, k + "peak_steel_temperature_C", "temperature"),
+                         cell(doc, k + "time_of_peak_steel_min", "time"),
+                         cell(doc, k + "critical_temperature_C", "temperature"),
+                         cell(doc, k + "margin_C", "temperature"),
+                         flag_cell(doc, k + "passes", "pass", "FAIL"),
+                         std_cell(doc, k + "standard_fire_time_to_critical_min"),
+                         cell(doc, k + "required_minutes", "input"),
+                         flag_cell(doc, k + "meets_required_period", "meets", "SHORT")])
+    from markupsafe import Markup
+
+    return {"input_head": [Markup(h) for h in head], "inputs": inputs, "verdicts": verdicts, "details": _details(doc),
+            "materials": _materials(doc)}
+
+
+#: Per-member traceability rows: document path under the member -> (label, symbol, unit, source).
+#: Keys not listed show under their own name, with the unit their suffix names.
+TRACE_LABELS = {
+    "details.specific_heat_at_peak_J_kgK": ("steel specific heat at the peak", "c_a", "J/(kg K)",
+                                            "EN 1993-1-2 eq (3.2)"),
+    "details.phi": ("heat capacity ratio of the protection", "phi", "-", "EN 1993-1-2 eq (4.27)"),
+    "details.conductivity_W_mK": ("protection conductivity at the peak", "lambda_p", "W/(m K)", "case material"),
+    "details.moisture_delay_min": ("moisture delay", "t_v", "min", "EN 1993-1-2 4.2.5.2(2)"),
+    "details.shadow_factor": ("shadow factor", "k_sh", "-", "EN 1993-1-2 eq (4.26)"),
+    "details.shadow_factor_formula": ("shadow factor by", "", "", "EN 1993-1-2 4.2.5.1(2)"),
+    "resistance.method": ("resistance: method", "", "", "EN 1993-1-2 4.2.3"),
+    "resistance.section_class": ("cross-section class in fire", "", "", "EN 1993-1-2 4.2.2"),
+    "resistance.class_part.part": ("class governed by", "", "", ""),
+    "resistance.class_part.c_over_t": ("its width-to-thickness ratio", "c/t", "-", "EN 1993-1-1 Table 5.2"),
+    "resistance.class_part.limit": ("its limit (with epsilon in fire)", "", "-", "EN 1993-1-2 4.2.2"),
+    "resistance.steel_grade": ("steel grade", "", "", "EN 10025-2"),
+    "resistance.f_y_MPa": ("yield strength (thickness band)", "f_y", "MPa", "EN 10025-2"),
+    "resistance.slenderness_20C": ("non-dimensional slenderness, 20 C", "lambda", "-", "EN 1993-1-1 6.3"),
+    "resistance.slenderness_at_critical": ("non-dimensional slenderness at the critical temperature", "lambda_theta",
+                                           "-", "EN 1993-1-2 eq (4.7)"),
+    "resistance.reduction_factor_at_critical": ("reduction factor at the critical temperature", "chi_fi", "-",
+                                                "EN 1993-1-2 eq (4.6)"),
+    "resistance.utilisation": ("degree of utilisation", "mu_0", "-", "EN 1993-1-2 4.2.4(3)"),
+    "resistance.critical_temperature_C": ("critical temperature from the resistance", "theta_a,cr", "C",
+                                          "EN 1993-1-2 4.2.3"),
+    "resistance.fails_at_20C": ("fails already at 20 C", "", "", ""),
+    "resistance.clause": ("resistance: clause", "", "", ""),
+    "conduction_peak_C": ("peak steel by the conduction model", "", "C", "protection_model = conduction"),
+    "model_difference_C": ("conduction minus lumped peak", "", "C", ""),
+    "lumped_valid": ("lumped model valid", "", "", ""),
+    "step_sensitivity_C": ("peak change when the time step halves", "", "C", ""),
+    "marginal": ("marginal", "", "", ""),
+}
+#: Headings of the traceability groups, by the member key they come from.
+TRACE_GROUPS = {"details": "intermediate values of the steel temperature",
+                "resistance": "member resistance in fire (EN 1993-1-2 4.2.3)",
+                "conduction": "conduction model check"}
+_CONDUCTION_KEYS = ("conduction_peak_C", "model_difference_C", "lumped_valid", "step_sensitivity_C", "marginal")
+#: Members per traceability table (columns).
+TRACE_COLUMNS = 5
+
+_SUFFIX_UNITS = (("_J_kgK", "J/(kg K)"), ("_W_mK", "W/(m K)"), ("_kNm", "kN m"), ("_kN", "kN"), ("_MPa", "MPa"),
+                 ("_C", "C"), ("_min", "min"), ("_mm", "mm"), ("_m", "m"), ("_s", "s"))
+
+
+def _label_of(path):
+    """(label, symbol, unit, source) of a traceability path; from its key where it is not listed."""
+    if path in TRACE_LABELS:
+        return TRACE_LABELS[path]
+    parts = path.split(".")
+    key = parts[-1]
+    unit = ""
+    for suf, u in _SUFFIX_UNITS:
+        if key.endswith(suf):
+            key, unit = key[: -len(suf)], u
+            break
+    words = [w.replace("_", " ") for w in parts[1:-1]] + [key.replace("_", " ")]
+    return (": ".join(words), "", unit, "")
+
+
+def _flatten(obj, prefix, out, notes):
+    """(path, value) pairs of a member's traceability object; text lists go to ``notes``; series
+    (lists of numbers, objects of lists) are left to results.json and the figures."""
+    for k, v in obj.items():
+        path = f"{prefix}.{k}"
+        if isinstance(v, dict):
+            if any(isinstance(x, list) for x in v.values()):
+                continue
+            _flatten(v, path, out, notes)
+        elif isinstance(v, list):
+            if all(isinstance(x, str) for x in v):
+                notes += v
+            elif len(v) <= 4 and all(P.is_number(x) for x in v):
+                out.append((path, v))
+        elif k == "notes" and isinstance(v, str):
+            if v:
+                notes.append(v)
+        else:
+            out.append((path, v))
+
+
+def _details(doc):
+    """Per-member traceability: intermediate values, member resistance and the conduction check,
+    where the document has them, as tables of quantities by member (``TRACE_COLUMNS`` members each)."""
+    per, groups = [], {}
+    for i, m in enumerate(doc["members"]):
+        pairs, notes = [], []
+        for g in ("details", "resistance"):
+            if isinstance(m.get(g), dict) and m[g]:
+                _flatten(m[g], g, pairs, notes)
+        pairs += [(k, m[k]) for k in _CONDUCTION_KEYS if k in m]
+        if pairs or notes:
+            per.append((i, dict(pairs), notes))
+        for path, _ in pairs:
+            g = path.split(".")[0] if "." in path else "conduction"
+            groups.setdefault(g, [])
+            if path not in groups[g]:
+                groups[g].append(path)
+    if not per:
+        return None
+    order = list(TRACE_LABELS)
+    for g in groups:
+        groups[g].sort(key=lambda p: (order.index(p) if p in order else len(order)))
+    tables = []
+    for c0 in range(0, len(per), TRACE_COLUMNS):
+        chunk = per[c0:c0 + TRACE_COLUMNS]
+        body = []
+        for g in ("details", "resistance", "conduction"):
+            paths = groups.get(g) or []
+            if not paths:
+                continue
+            body.append({"group": TRACE_GROUPS[g]})
+            for path in paths:
+                label, sym, unit, src = _label_of(path)
+                cells = []
+                for i, vals, _ in chunk:
+                    key = f"members.{i}.{path}"
+                    if path not in vals:
+                        cells.append(text_cell(DASH, "na"))
+                    elif path == "marginal":
+                        cells.append(flag_cell(doc, key, "MARGINAL", "no"))
+                    elif path == "lumped_valid":
+                        cells.append(flag_cell(doc, key, "yes", "NO"))
+                    else:
+                        kind = P.kind_of(path, unit)
+                        if path.endswith("_kN") or path.endswith("_kNm") or path.endswith("_MPa"):
+                            kind = "factor"
+                        cells.append(cell(doc, key, kind))
+                body.append({"label": label, "symbol": symbol_html(sym), "unit": unit_html(unit), "source": src,
+                             "cells": cells})
+        tables.append({"members": [doc["members"][i]["name"] for i, _, _ in chunk], "rows": body})
+    notes = [{"name": doc["members"][i]["name"], "text": n} for i, _, ns in per for n in ns]
+    return {"tables": tables, "notes": notes}
+
+
+def _materials(doc):
+    mats = (doc.get("inputs") or {}).get("materials") or []
+    rows = []
+    for j, mt in enumerate(mats):
+        k = f"inputs.materials.{j}."
+        if isinstance(mt.get("conductivity"), list):
+            parts = [f"{P.fmt(t, 'input')} \u00b0C: {P.fmt(v, 'input')}" for t, v in mt["conductivity"]]
+            cond = {"text": "; ".join(parts), "key": k + "conductivity", "cls": "txt"}
+        else:
+            cond = cell(doc, k + "conductivity", "input")
+        rows.append([{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "density", "input"), cond,
+                     cell(doc, k + "specific_heat", "input"), cell(doc, k + "moisture_percent", "input"),
+                     cell(doc, k + "description", none="")])
+    return rows
+
+
+def _equivalence(doc):
+    ms = doc["members"]
+    routes = [r for r in ("annex_f", "annex_f_small_compartment", "cib_w14")
+              if any(P.is_number((m.get("equivalence") or {}).get(P.ROUTE_KEYS[r])) for m in ms)]
+    heads = {"annex_f": "Annex F t<sub>e,d</sub> [min]", "annex_f_small_compartment": "eq (F.3) t<sub>e,d</sub> [min]",
+             "cib_w14": "CIB W14 t<sub>e</sub> [min]"}
+    rows = []
+    for i, m in enumerate(ms):
+        k = f"members.{i}."
+        e = m.get("equivalence") or {}
+        conf = P.route_conflicts(doc, m)
+        row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "required_minutes", "input"),
+               std_cell(doc, k + "standard_fire_time_to_critical_min")]
+        for r in routes:
+            c = cell(doc, k + "equivalence." + P.ROUTE_KEYS[r], "time", none="n/a")
+            if any(x["route"] == r for x in conf):
+                c["cls"] += " warn"
+                c["text"] += "*"
+            row.append(c)
+        row.append(std_cell(doc, k + "equivalence.equal_temperature_min") if e else text_cell(DASH, "na"))
+        row.append(text_cell(", ".join(x["label"] for x in conf) or DASH, "txt warn" if conf else "txt null"))
+        rows.append(row)
+    head = ["member", "t<sub>req</sub> [min]", "t<sub>fi,std</sub> [min]"] + [heads[r] for r in routes] + \
+        ["equal temp. t<sub>e</sub> [min]", "unconservative here"]
+    conflicts = [{"name": m["name"], "text": x["text"]} for m in ms for x in P.route_conflicts(doc, m)]
+    from markupsafe import Markup
+
+    return {"head": [Markup(h) for h in head], "rows": rows, "conflicts": conflicts, "annex_f": _annex_f(doc),
+            "cib": _cib(doc)}
+
+
+#: Annex F factor rows: (label, symbol, key, unit, source); "_raw" keys are shown beside the used value.
+ANNEX_F_ROWS = (
+    ("design fire load density", "q_f,d", "design_fire_load_MJ_m2", "MJ/m2", "EN 1991-1-2 eq (E.1)"),
+    ("thermal inertia", "b", "thermal_inertia", "J/(m2 s^0.5 K)", "Annex A (3)"),
+    ("conversion factor", "k_b", "k_b", "min m2/MJ", "Table F.1"),
+    ("band of b", "", "k_b_band", "", "Table F.1"),
+    ("vertical openings / floor area", "alpha_v", "alpha_v", "-", "eq (F.2), held to 0.025..0.25"),
+    ("horizontal openings / floor area", "alpha_h", "alpha_h", "-", "eq (F.2)"),
+    ("", "b_v", "b_v", "-", "eq (F.2): 12.5(1 + 10 alpha_v - alpha_v^2) >= 10"),
+    ("height factor (6.0/H)^0.3", "", "height_factor", "-", "eq (F.2)"),
+    ("ventilation factor", "w_f", "w_f", "-", "eq (F.2), at least 0.5"),
+    ("opening factor", "O", "opening_factor_m05", "m^0.5", "Annex A (3)"),
+    ("correction factor", "k_c", "k_c", "-", "Table F.2"),
+    ("basis of k_c", "", "k_c_basis", "", "Table F.2"),
+    ("equivalent time q_f,d k_b w_f k_c", "t_e,d", "t_e_min", "min", "eq (F.1)"),
+    ("small compartment: ventilation factor O^-1/2 A_f/A_t", "w_f", "small_compartment.w_f", "-", "eq (F.3)"),
+    ("small compartment: equivalent time", "t_e,d", "small_compartment.t_e_min", "min", "eq (F.1) with (F.3)"),
+    ("eq (F.3)", "", "small_compartment_note", "", ""),
+)
+
+
+def _annex_f(doc):
+    fac = (doc.get("fire") or {}).get("equivalence_factors") or {}
     cols = [(k, lab) for k, lab in (("annex_f_protected", "protected steel"), ("annex_f_bare", "bare steel"))
             if fac.get(k)]
-    if cols:
-        base = "fire.equivalence_factors."
-        spec = [("design fire load density", "q<sub>f,d</sub>", "design_fire_load_MJ_m2", U_MJ, "EN 1991-1-2 eq (E.1)",
-                 "num"),
-                ("thermal inertia", "b", "thermal_inertia", U_B, "Annex A (3)", "num"),
-                ("conversion factor", "k<sub>b</sub>", "k_b", "min m²/MJ", "EN 1991-1-2 Table F.1", "num"),
-                ("band of b", "", "k_b_band", "", "EN 1991-1-2 Table F.1", "txt"),
-                ("A_v / A_f as computed", "α<sub>v</sub>", "alpha_v_raw", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("A_v / A_f as used (0.025 ≤ α_v ≤ 0.25)", "α<sub>v</sub>", "alpha_v", U_NONE, "EN 1991-1-2 eq (F.2)",
-                 "num"),
-                ("A_h / A_f", "α<sub>h</sub>", "alpha_h", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("b_v as computed", "b<sub>v</sub> = 12.5(1 + 10α<sub>v</sub> − α<sub>v</sub>²)", "b_v_raw", U_NONE,
-                 "EN 1991-1-2 eq (F.2)", "num"),
-                ("b_v as used (≥ 10)", "b<sub>v</sub>", "b_v", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("height factor", "(6.0/H)<sup>0.3</sup>", "height_factor", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("ventilation factor as computed", "w<sub>f</sub>", "w_f_raw", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("ventilation factor as used (≥ 0.5)", "w<sub>f</sub>", "w_f", U_NONE, "EN 1991-1-2 eq (F.2)", "num"),
-                ("opening factor", "O", "opening_factor_m05", U_M05, "Annex A (3)", "num"),
-                ("correction factor", "k<sub>c</sub>", "k_c", U_NONE, "EN 1991-1-2 Table F.2", "num"),
-                ("basis of k_c", "", "k_c_basis", "", "EN 1991-1-2 Table F.2", "txt"),
-                ("equivalent time", "t<sub>e,d</sub> = q<sub>f,d</sub> k<sub>b</sub> w<sub>f</sub> k<sub>c</sub>", "t_e_min",
-                 U_MIN, "EN 1991-1-2 eq (F.1)", "num"),
-                ("small compartment: ventilation factor", "w<sub>f</sub> = O<sup>−½</sup> A<sub>f</sub>/A<sub>t</sub>",
-                 "small_compartment.w_f", U_NONE, "EN 1991-1-2 eq (F.3)", "num"),
-                ("small compartment: equivalent time", "t<sub>e,d</sub>", "small_compartment.t_e_min", U_MIN,
-                 "EN 1991-1-2 eq (F.1) with eq (F.3)", "num"),
-                ("eq (F.3)", "", "small_compartment_note", "", "EN 1991-1-2 eq (F.3)", "txt")]
-        rows = []
-        for label, sym, key, unit, ref, kind in spec:
-            cells = []
-            for col, _ in cols:
-                full = f"{base}{col}.{key}"
-                cells.append((c.num(full) if kind == "num" else c.txt(full, cls="txt ref")) if _has(doc, full)
-                             else _plain(DASH))
-            rows.append([_lbl(label), _sym(sym)] + cells + [_unit(unit), _ref(ref)])
-        out.append("<h3>EN 1991-1-2 Annex F factors</h3>")
-        out.append(_table(["quantity", "symbol"] + [lab for _, lab in cols] + ["unit", "source"], rows))
-    if fac.get("cib_w14"):
-        base = "fire.equivalence_factors.cib_w14."
-        rows = [[_lbl("design fire load density"), _sym("q<sub>f,d</sub>"), c.num(base + "design_fire_load_MJ_m2"),
-                 _unit(U_MJ), _ref("EN 1991-1-2 eq (E.1)")],
-                [_lbl("thermal inertia"), _sym("b"), c.num(base + "thermal_inertia"), _unit(U_B), _ref("Annex A (3)")],
-                [_lbl("conversion factor"), _sym("k<sub>c</sub>"), c.num(base + "k_c"), _unit("min m<sup>2.25</sup>/MJ"),
-                 _ref("CIB W14 design guide (1986), by band of b; values from memory, check against the source")],
-                [_lbl("band of b"), _sym(""), c.txt(base + "k_c_band"), _unit(""), _ref("CIB W14")],
-                [_lbl("ventilation factor"), _sym("w = A<sub>f</sub> / √(A<sub>v</sub> A<sub>t</sub> √h<sub>eq</sub>)"),
-                 c.num(base + "w"), _unit("m<sup>−¼</sup>"), _ref("CIB W14 (equal to eq (F.3) of EN 1991-1-2)")],
-                [_lbl("equivalent time, protected members"), _sym("t<sub>e</sub> = k<sub>c</sub> w q<sub>f,d</sub>"),
-                 c.num(base + "t_e_min"), _unit(U_MIN), _ref("CIB W14")]]
-        if get(doc, base + "not_applicable_reason") is not None:
-            rows.append([_lbl("not applicable because"), _sym(""), c.txt(base + "not_applicable_reason"), _unit(""),
-                         _ref("CIB W14")])
-        out.append("<h3>CIB W14 factors</h3>")
-        out.append(_table(["quantity", "symbol", "value", "unit", "source"], rows))
-        out.append('<p class="note">CIB W14 is an empirical correlation for protected (insulated) members, not a '
-                   "Eurocode method; its use rests with the approving authority. It is left blank for bare members.</p>")
-    if not fac:
-        out.append('<p class="note">Annex F and CIB W14 need [compartment] and [fire_load]; only the '
-                   "equal-steel-temperature route is given for this case.</p>")
-    return "\n".join(out)
-
-
-def _value_cell(c, doc, key):
-    """A cell for a document value of any type: number, flag, text, or a short list / dict of numbers."""
-    v = get(doc, key)
-    if isinstance(v, bool) or v is None:
-        return c.flag(key, yes="yes", no="NO") if isinstance(v, bool) else c.num(key)
-    if isinstance(v, (int, float)):
-        return c.num(key)
-    if isinstance(v, str):
-        return c.txt(key)
-    if isinstance(v, list) and all(isinstance(x, (int, float)) and not isinstance(x, bool) for x in v):
-        parts = [f'<span class="num" data-key="{_esc(c.emit(key))}.{j}">{format_number(x)}</span>'
-                 for j, x in enumerate(v)]
-        return '<td class="txt">' + " – ".join(parts) + "</td>"
-    if isinstance(v, dict) and all(isinstance(x, (int, float)) and not isinstance(x, bool) or x is None
-                                   for x in v.values()):
-        parts = [f'{_esc(k)} <span class="num" data-key="{_esc(c.emit(key))}.{_esc(k)}">'
-                 f'{DASH if x is None else format_number(x)}</span>' for k, x in v.items()]
-        return '<td class="txt">' + ", ".join(parts) + "</td>"
-    return _plain(str(v))
-
-
-def _sizing(doc, c0, sizing_keys):
-    keys = [k for k in sizing_keys if k != "note"]
-    rows, notes = [], []
-    for i, m in enumerate(doc["members"]):
-        if not isinstance(m.get("sizing"), dict):
+    if not cols:
+        return None
+    rows = []
+    for label, sym, key, unit, src in ANNEX_F_ROWS:
+        cells = []
+        for col, _ in cols:
+            full = f"fire.equivalence_factors.{col}.{key}"
+            v = get(doc, full)
+            c = cell(doc, full, "time" if key.endswith("t_e_min") else "factor")
+            raw = get(doc, full + "_raw") if not key.startswith("small") else None
+            if P.is_number(v) and P.is_number(raw) and P.fmt(raw) != P.fmt(v):
+                c = {**c, "note": f"computed {P.fmt(raw)}"}
+            cells.append(c)
+        if all(get(doc, f"fire.equivalence_factors.{col}.{key}") is None for col, _ in cols):
             continue
-        k = f"members.{i}."
-        c = c0.at(f"members.{i}")
-        cells = [c.txt(k + "name", cls="txt name"), c.num(k + "thickness_mm")]
-        for key in keys:
-            full = f"{k}sizing.{key}"
-            cells.append(_value_cell(c, doc, full) if _has(doc, full) else f'<td class="na">{DASH}</td>')
-        rows.append(_Row(f"members.{i}", cells))
-        note = m["sizing"].get("note")
-        if isinstance(note, str) and note:
-            notes.append(f'<li><b>{_esc(m["name"])}</b>: '
-                         f'<span class="txt" data-key="{_esc(k)}sizing.note">{_esc(note)}</span></li>')
-    labels = {"standard_period_mm": "least d<sub>p</sub>, standard period [mm]",
-              "burnout_mm": "least d<sub>p</sub>, design fire [mm]", "governing": "governs",
-              "chosen_mm": "chosen d<sub>p</sub> [mm]", "achievable": "achievable",
-              "supplied_range_mm": "supplied range [mm]", "iterations": "bisection steps"}
-    head = ["member", "d<sub>p</sub> in the case [mm]"] + [labels.get(k, _esc(k)) for k in keys]
-    out = [_table(head, rows, cls="calc members")]
-    if notes:
-        out.append('<ul class="notes">' + "".join(notes) + "</ul>")
-    out.append('<p class="note">Least thickness by scanning upward and bisecting the first passing interval, '
-               "rounded up to an available thickness and verified (EN 1993-1-2 eq (4.27)); under the design fire "
-               "a thicker layer can give a hotter burnout peak.</p>")
-    return "\n".join(out)
+        rows.append({"label": label, "symbol": symbol_html(sym), "cells": cells, "unit": unit_html(unit),
+                     "source": src})
+    return {"cols": [lab for _, lab in cols], "rows": rows}
 
 
-def _code_values(doc, c):
+def _cib(doc):
+    base = "fire.equivalence_factors.cib_w14."
+    if not get(doc, "fire.equivalence_factors.cib_w14"):
+        return None
+    spec = [("design fire load density", "q_f,d", "design_fire_load_MJ_m2", "MJ/m2", "EN 1991-1-2 eq (E.1)"),
+            ("conversion factor, by band of b", "k_c", "k_c", "min m^2.25/MJ",
+             "CIB W14 (1986); values from memory, check against the source"),
+            ("band of b", "", "k_c_band", "", ""),
+            ("ventilation factor A_f / (A_v A_t h_eq^1/2)^1/2", "w", "w", "m^-0.25", "CIB W14"),
+            ("equivalent time k_c w q_f,d", "t_e", "t_e_min", "min", "CIB W14"),
+            ("not applicable because", "", "not_applicable_reason", "", "")]
+    return [_row(doc, lab, base + key, unit, src, "time" if key == "t_e_min" else None, sym)
+            for lab, sym, key, unit, src in spec if get(doc, base + key) is not None]
+
+
+def _sizing(doc):
+    rows_ = P.sizing_rows(doc)
+    if not rows_:
+        return None
+    idx = {m["name"]: i for i, m in enumerate(doc["members"])}
+    rows, notes = [], []
+    word = {True: ("meets", "flag ok"), False: ("SHORT", "flag bad"), None: ("not given", "flag null")}
+    for r in rows_:
+        k = f"members.{idx[r.name]}.sizing."
+        bare = r.protection is None
+        spec_w, spec_c = word[r.specified_ok]
+        prop_w, prop_c = word[r.proposed_ok]
+        ch = P.change_text(r)
+        rows.append([{**cell(doc, f"members.{idx[r.name]}.name"), "cls": "txt name"},
+                     text_cell("bare steel") if bare else cell(doc, f"members.{idx[r.name]}.protection"),
+                     text_cell(DASH, "na") if bare else cell(doc, k + ("specified_mm" if "specified_mm" in
+                                                                            get(doc, k[:-1]) else "given_mm"),
+                                                               "input", none="not given"),
+                     text_cell(DASH, "na") if bare else cell(doc, k + "standard_period_mm", "required_thickness"),
+                     text_cell(DASH, "na") if bare else cell(doc, k + "burnout_mm", "required_thickness",
+                                                               none="none meets"),
+                     text_cell(DASH, "na") if bare else cell(doc, k + "chosen_mm", "input", none="none"),
+                     text_cell(ch if ch not in ("bare",) else DASH,
+                               "txt" + (" warn" if r.change == "increase" or r.change == "not achievable" else "")),
+                     {"text": spec_w, "key": None, "cls": spec_c}, {"text": prop_w, "key": None, "cls": prop_c}])
+        if r.note or r.specified_reason:
+            notes.append({"name": r.name, "text": "; ".join(x for x in (r.specified_reason, r.note) if x)})
+    lines = P.verdict_lines(doc, True)
+    return {"rows": rows, "notes": notes, "verdicts": lines}
+
+
+def _code_values(doc):
     src = doc.get("code_value_sources") or {}
     over = set(((doc.get("inputs") or {}).get("code_overrides") or {}).keys())
     rows = []
-    for name in doc["code_values"]:
-        k = "code_values." + name
-        rows.append([_plain(name, "txt code"), c.num(k),
-                     c.txt(f"code_value_sources.{name}.unit", cls="unit") if name in src else _plain(""),
-                     c.txt(f"code_value_sources.{name}.clause", cls="ref") if name in src else _plain(""),
-                     _plain("case [code]" if name in over else "EN recommended", "txt" + (" warn" if name in over else ""))])
-    settings = [[_lbl("time step"), c.num("analysis.time_step_s"), _unit("s"),
-                 _ref("EN 1993-1-2 4.2.5.1(4) ≤ 5 s bare, 4.2.5.2(3) ≤ 30 s protected")],
-                [_lbl("standard-fire horizon"), c.num("analysis.standard_horizon_min"), _unit(U_MIN),
-                 _ref("times to critical and equal-temperature equivalence are sought up to it")]]
-    if _has(doc, "inputs.analysis.allow_out_of_scope"):
-        settings.append([_lbl("compute outside a method's scope"),
-                         c.flag("inputs.analysis.allow_out_of_scope", yes="yes", no="no", neutral=True),
-                         _unit(""), _ref("case [analysis] allow_out_of_scope")])
-    return "\n".join([
-        "<h3>Analysis settings</h3>",
-        _table(["setting", "value", "unit", "source"], settings),
-        "<h3>Code values used</h3>",
-        '<p class="note">Every value taken from a clause, as used in this run; national annexes may set other '
-        "values (override by name in the case's [code] table).</p>",
-        _table(["name", "value", "unit", "clause", "set by"], rows, cls="calc codes")])
+    for name in doc.get("code_values") or {}:
+        s = src.get(name) or {}
+        c = cell(doc, "code_values." + name, "input")
+        unit = s.get("unit")
+        rows.append({"name": name, "value": c, "value_html": _span(c),
+                     "unit": unit_html(None if unit in ("-", "") else unit),
+                     "clause": s.get("clause") or "", "set": "case [code]" if name in over else ""})
+    settings = [_row(doc, "time step", "analysis.time_step_s", "s",
+                     "EN 1993-1-2 4.2.5.1(4) bare \u2264 5 s, 4.2.5.2(3) protected \u2264 30 s", "input"),
+                _row(doc, "standard-fire horizon", "analysis.standard_horizon_min", "min",
+                     "times to critical and equal-temperature times are sought up to it", "input")]
+    if get(doc, "inputs.analysis.allow_out_of_scope") is not None:
+        settings.append(_row(doc, "compute outside a method's scope", "inputs.analysis.allow_out_of_scope", "",
+                             "case [analysis] allow_out_of_scope"))
+    return {"rows": rows, "settings": settings, "overridden": len(over)}
 
 
-# ----------------------------------------------------------------------------------------------
-# page
+def _warnings(doc):
+    return [{"text": text, "count": count} for text, count in P.warning_lines(doc, most=NAMES_IN_WARNING)]
 
 
-CSS = """
-:root { --ink: #1c232b; --mute: #505b66; --rule: #b9c1c9; --hair: #dde2e7; --band: #f3f5f7;
-        --bad: #8c1d0e; --ok: #1f4d2b; --warn: #7a4b00; }
-* { box-sizing: border-box; }
-html { background: #fff; }
-body { margin: 0 auto; max-width: 200mm; padding: 10mm 8mm 16mm; color: var(--ink);
-       font: 10pt/1.42 "Liberation Sans", "Helvetica Neue", Arial, sans-serif; }
-header.runhead { border-top: 2.5pt solid var(--ink); border-bottom: 0.75pt solid var(--ink); padding: 3mm 0 2mm;
-                 margin-bottom: 5mm; }
-.kind { font-size: 8.5pt; letter-spacing: 0.08em; text-transform: uppercase; color: var(--mute); }
-h1 { font-size: 16pt; margin: 1mm 0 2mm; font-weight: 700; }
-h2 { font-size: 12.5pt; margin: 7mm 0 2mm; padding-bottom: 1mm; border-bottom: 0.75pt solid var(--ink); }
-h2 .no { display: inline-block; min-width: 8mm; }
-h3 { font-size: 10.5pt; margin: 5mm 0 1.5mm; }
-table { border-collapse: collapse; margin: 1mm 0 3mm; font-variant-numeric: tabular-nums; }
-table.stamp td { padding: 0.4mm 4mm 0.4mm 0; font-size: 8.5pt; vertical-align: top; }
-table.stamp td.lbl { color: var(--mute); white-space: nowrap; }
-td.hash { font-family: "DejaVu Sans Mono", "Liberation Mono", Consolas, monospace; font-size: 8pt;
-          word-break: break-all; }
-table.calc { width: 100%; font-size: 9pt; }
-table.calc th { text-align: left; font-weight: 600; border-bottom: 0.75pt solid var(--ink); padding: 1mm 1.5mm;
-                vertical-align: bottom; }
-table.calc tr.src th { font-weight: 400; font-size: 7.5pt; color: var(--mute); border-bottom: 0.5pt solid var(--rule);
-                       padding-top: 0; }
-table.calc td { border-bottom: 0.5pt solid var(--hair); padding: 0.8mm 1.5mm; vertical-align: top; }
-table.calc tbody tr:nth-child(even) td { background: var(--band); }
-table.summary { width: auto; min-width: 110mm; }
-td.num { text-align: right; white-space: nowrap; }
-td.num.null, td.flag.null, td.na { color: var(--mute); text-align: center; }
-td.sym { white-space: nowrap; }
-td.unit { color: var(--mute); white-space: nowrap; }
-td.ref, td.txt.ref { color: var(--mute); font-size: 8pt; }
-td.name { font-weight: 600; white-space: nowrap; }
-td.code { font-family: "DejaVu Sans Mono", "Liberation Mono", Consolas, monospace; font-size: 8pt; }
-td.flag { text-align: center; white-space: nowrap; }
-td.flag.bad { color: var(--bad); font-weight: 700; }
-td.flag.ok { color: var(--ok); }
-td.warn { color: var(--warn); font-weight: 600; }
-p.note { font-size: 8.5pt; color: var(--mute); margin: 1mm 0 3mm; }
-p.verdict { font-weight: 700; padding: 2mm 3mm; border-left: 2.5pt solid var(--ok); background: var(--band); }
-p.verdict.bad { border-left-color: var(--bad); }
-div.oos { border: 1.25pt solid var(--bad); padding: 2mm 3mm; margin: 2mm 0 4mm; color: var(--bad); }
-figure { margin: 3mm 0 5mm; }
-figure svg { display: block; width: 100%; height: auto; }
-figcaption { font-size: 8.5pt; color: var(--mute); margin-top: 1mm; }
-figcaption b { color: var(--ink); }
-ol.warnings li, ul.notes li { margin-bottom: 1.5mm; }
-ul.notes { font-size: 8.5pt; }
-div.cautions { border: 1pt solid var(--ink); padding: 2mm 4mm; }
-div.cautions ul { margin: 1mm 0; padding-left: 5mm; }
-div.pagehead { display: none; }
-footer { margin-top: 8mm; border-top: 0.5pt solid var(--rule); padding-top: 1.5mm; font-size: 8pt; color: var(--mute); }
-@page { size: A4 portrait; margin: 15mm 13mm 16mm 13mm; }
-@media print {
-  body { max-width: none; padding: 0; font-size: 9pt; }
-  * { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
-  section.sheet { break-before: page; page-break-before: always; }
-  section.sheet.first { break-before: auto; page-break-before: auto; }
-  div.pagehead { display: flex; justify-content: space-between; gap: 4mm; font-size: 7.5pt; color: var(--mute);
-                 border-bottom: 0.5pt solid var(--rule); padding-bottom: 1mm; margin-bottom: 3mm; }
-  section.sheet.first div.pagehead { display: none; }
-  h2 { margin-top: 0; break-after: avoid; page-break-after: avoid; }
-  h3 { break-after: avoid; page-break-after: avoid; }
-  table.calc { font-size: 7.8pt; }
-  table.calc tr.src th { font-size: 6.8pt; }
-  thead { display: table-header-group; }
-  tr, figure, div.cautions, div.oos, p.verdict { break-inside: avoid; page-break-inside: avoid; }
-  figure svg { max-height: 225mm; }
-}
-"""
+def context(doc, figures=()) -> dict:
+    """Everything the template shows, prepared from the document (and the rendered figures)."""
+    from markupsafe import Markup
 
-
-def render_report(doc, figures) -> str:
-    """The report page (a str of HTML) from the result document and the rendered figures."""
     from steelfire.outputs.report import plots
-    from steelfire.outputs.tables import sizing_columns
 
-    c = _Cells(doc)
-    figs = {f.name: f for f in figures}
-    fig_no = {}
-
-    def figure(name):
-        f = figs.get(name)
-        if f is None:
-            return ""
-        n = len(fig_no) + 1
-        fig_no[name] = n
-        svg = plots.inline_svg(f.svg, f"fig{n}", label=f.caption)
-        return (f'<figure id="figure-{n}">{svg}<figcaption><b>Figure {n}.</b> {_esc(f.caption)} '
-                f'(also fig_{_esc(name)}.png, fig_{_esc(name)}.svg)</figcaption></figure>')
-
-    title = _esc(doc["title"])
-    cmd = _esc(doc["run"]["command"])
-    sections = []
-    ph = _pagehead(doc)
-
-    def section(no, head, body, first=False):
-        cls = "sheet first" if first else "sheet"
-        sections.append(f'<section class="{cls}" id="s{no}">{ph}<h2><span class="no">{no}</span>{_esc(head)}</h2>\n'
-                        f"{body}\n</section>")
-
-    sz = sizing_columns(doc)
-    warn_no = 7 if sz else 6
-    section(1, "Summary", _summary(doc, c, warn_no, warn_no + 1), first=True)
-    section(2, "Design fire",
-            "<h3>2.1 Inputs</h3>\n" + _fire_inputs(doc, c) + "\n<h3>2.2 Intermediate values and the design fire</h3>\n" +
-            _fire_values(doc, c) + "\n" + figure("design_fire"))
-    hist_note = ""
-    if doc["report"].get("histories_kept", 0) == 0:
-        hist_note = ('<p class="note">Steel temperature histories were not kept for this run '
-                     "(analyse(case, histories=False)): no history figure, and histories.csv holds the gas only.</p>")
-    section(3, "Members: steel temperatures and verdicts",
-            _members(doc, c) + "\n" + hist_note + figure("steel_temperatures"))
-    section(4, "Time equivalence", _equivalence(doc, c) + "\n" + figure("time_equivalence"))
-    no = 5
-    if sz:
-        section(no, "Protection sizing", _sizing(doc, c, sz) + "\n" + figure("thickness"))
-        no += 1
-    section(no, "Code values and settings", _code_values(doc, c))
-    no += 1
-    w = "".join(f"<li>{_esc(x)}</li>" for x in doc["warnings"]) or "<li>none</li>"
-    section(no, "Warnings", f'<ol class="warnings">{w}</ol>')
-    no += 1
-    cau = "".join(f"<li>{_esc(x)}</li>" for x in doc["cautions"])
-    section(no, "Cautions",
-            f'<div class="cautions"><p><b>Limits of this calculation.</b></p><ul>{cau}</ul></div>'
-            '<p class="note">The figures and tables are produced from results.json of the same run; '
-            "members.csv and histories.csv hold the schedule and the temperature histories.</p>")
-    page = "\n".join([
-        "<!DOCTYPE html>",
-        '<html lang="en">',
-        "<head>",
-        '<meta charset="utf-8">',
-        '<meta name="viewport" content="width=device-width, initial-scale=1">',
-        f"<title>{title} — steelfire {cmd}</title>",
-        f"<style>{CSS}</style>",
-        "</head>",
-        "<body>",
-        '<header class="runhead">',
-        f'<div class="kind">Structural fire calculation · steelfire {cmd}</div>',
-        f"<h1>{title}</h1>",
-        _stamp(doc, c),
-        "</header>",
-        "\n".join(sections),
-        f'<footer>steelfire {_esc(doc["run"]["steelfire_version"])} · {_esc(doc["run"]["utc"])} · '
-        f'{_esc(doc["run"]["case_file"] or "case built in memory")}</footer>',
-        "</body>",
-        "</html>",
-    ])
-    return page + "\n"
+    rep = doc.get("report") or {}
+    figs = {}
+    for n, f in enumerate(figures, start=1):
+        figs[f.name] = {"no": n, "name": f.name, "caption": f.caption,
+                        "svg": Markup(plots.inline_svg(f.svg, f"fig{n}", label=f.caption))}
+    sizing = any(isinstance(m.get("sizing"), dict) for m in doc["members"])
+    run = doc.get("run") or {}
+    return {
+        "title": doc.get("title") or "",
+        "command": run.get("command") or ("size" if sizing else "check"),
+        "version": run.get("steelfire_version") or doc.get("steelfire_version") or "",
+        "record": _record(doc),
+        "marks": _page_marks(doc),
+        "summary": _summary(doc, sizing),
+        "fire": {"curve": doc["fire"].get("curve"), "inputs": _fire_inputs(doc), "values": _fire_values(doc)},
+        "members": _members(doc),
+        "histories_kept": rep.get("histories_kept", 1) != 0,
+        "selection": rep.get("selection"),
+        "equivalence": _equivalence(doc),
+        "sizing": _sizing(doc) if sizing else None,
+        "codes": _code_values(doc),
+        "warnings": _warnings(doc),
+        "cautions": list(doc.get("cautions") or []),
+        "figures": figs,
+        "files": rep.get("files") or [],
+    }
 
 
-__all__ = ["render_report", "get", "CSS"]
+def render_report(doc, figures=()) -> str:
+    """The report page (a str of HTML) from the result document and the rendered figures."""
+    import jinja2
+
+    env = jinja2.Environment(loader=jinja2.FileSystemLoader(str(HERE)), autoescape=True,
+                             undefined=jinja2.StrictUndefined, trim_blocks=True, lstrip_blocks=True,
+                             keep_trailing_newline=True)
+    css = (HERE / STYLESHEET).read_text(encoding="utf-8")
+    if "</" in css:  # the stylesheet is ours; it must not be able to close the style element
+        raise ValueError(f"{STYLESHEET} holds '</'")
+    from markupsafe import Markup
+
+    return env.get_template(TEMPLATE).render(css=Markup(css), **context(doc, figures))
+
+
+__all__ = ["render_report", "context", "get", "css_string", "symbol_html", "unit_html"]

@@ -37,6 +37,7 @@ CRITICAL = "#c8850f"      # ochre, dashed
 ANNEX_F = "#22507d"       # deep blue
 CIB_W14 = "#a9d2c9"       # pale sea green, hatched
 EQUAL_T = "#dd9c2c"       # amber
+SMALL_COMPARTMENT = "#7d9fc0"  # light steel blue, dotted
 MARKER = INK
 
 FIG_WIDTH_IN = 7.0
@@ -173,10 +174,19 @@ def _num(v):
     return isinstance(v, (int, float)) and not isinstance(v, bool)
 
 
-def _fmt(v) -> str:
-    from steelfire.outputs.tables import format_number
+def _fmt(v, kind="factor") -> str:
+    """A number as the report shows it (temperatures and times to 0.1, factors to 4 significant figures)."""
+    from steelfire.outputs.present import fmt
 
-    return format_number(v)
+    return fmt(v, kind)
+
+
+def _fire_row(doc, key):
+    """The design fire's report row for ``key`` (label, symbol, unit, clause), or None."""
+    for r in doc.get("fire_rows") or []:
+        if r.get("key") == key:
+            return r
+    return None
 
 
 # ----------------------------------------------------------------------------------------------
@@ -197,10 +207,7 @@ def design_fire_figure(doc, result):
     fig = _figure(3.4)
     ax = fig.add_subplot()
     curve = f["curve"]
-    label = {"parametric": "design fire: EN 1991-1-2 Annex A parametric", "table": "design fire: tabulated",
-             "standard": "design fire: standard curve, eq (3.4)",
-             "hydrocarbon": "design fire: hydrocarbon curve, eq (3.6)",
-             "external": "design fire: external fire curve, eq (3.5)"}.get(curve, f"design fire: {curve}")
+    label = f"design fire: {_mpl_text(curve)}"
     keep = [ipk]
     if _num(f.get("t_max_min")):
         keep.append(int(np.argmin(abs(t - f["t_max_min"]))))
@@ -212,10 +219,16 @@ def design_fire_figure(doc, result):
                 label="standard fire (ISO 834), EN 1991-1-2 eq (3.4)", zorder=2)
     ax.plot([f["time_of_peak_gas_min"]], [f["peak_gas_temperature_C"]], marker="v", ms=6, color=INK, ls="none",
             clip_on=False,
-            label=f"peak {_fmt(f['peak_gas_temperature_C'])} °C at {_fmt(f['time_of_peak_gas_min'])} min", zorder=4)
+            label=f"peak {_fmt(f['peak_gas_temperature_C'], 'temperature')} °C at "
+                  f"{_fmt(f['time_of_peak_gas_min'], 'time')} min", zorder=4)
+    t_max_row = _fire_row(doc, "t_max_min")
     if _num(f.get("t_max_min")):
         ax.axvline(f["t_max_min"], color=INK, lw=0.9, ls=(0, (1, 2)), zorder=1)
-        ax.annotate(f"$t_\\mathrm{{max}}$ = {_fmt(f['t_max_min'])} min, eq (A.4)", xy=(f["t_max_min"], 0.97),
+        where = ""
+        if t_max_row and t_max_row.get("clause"):
+            m = re.search(r"eq \([^)]*\)", t_max_row["clause"])
+            where = f", {m.group(0)}" if m else ""
+        ax.annotate(f"$t_\\mathrm{{max}}$ = {_fmt(f['t_max_min'], 'time')} min{where}", xy=(f["t_max_min"], 0.97),
                     xycoords=("data", "axes fraction"), xytext=(4, 0), textcoords="offset points", fontsize=8,
                     ha="left", va="top")
     if _num(f.get("burnout_time_min")) and f["burnout_time_min"] <= t[-1]:
@@ -234,7 +247,8 @@ def design_fire_figure(doc, result):
     if curve != "standard":
         cap += ", with the standard fire for reference"
     if _num(f.get("t_max_min")):
-        cap += "; the dotted line marks t_max of EN 1991-1-2 Annex A eq (A.4)"
+        what = (t_max_row or {}).get("label") or "t_max"
+        cap += f"; the dotted line marks t_max ({what}, {(t_max_row or {}).get('clause') or 'the fire model'})"
     cap += "."
     return fig, cap
 
@@ -274,7 +288,7 @@ def steel_temperatures_figure(doc, result, idx, note):
                 ls="none", label="peak steel", clip_on=False, zorder=5)
         verdict = "pass" if d["passes"] else "FAIL"
         ax.set_title(f"{_mpl_text(_short(d['name'], 28 if ncols == 3 else 44))}\n"
-                     f"margin {_fmt(d['margin_C'])} °C, {verdict}", fontsize=8, linespacing=1.3)
+                     f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}", fontsize=8, linespacing=1.3)
         ax.set_xlim(0, t[-1])
         ax.set_ylim(0, ymax)
     for col in range(ncols):  # the lowest visible panel of each column carries the time axis
@@ -298,65 +312,97 @@ def steel_temperatures_figure(doc, result, idx, note):
 
 
 def time_equivalence_figure(doc, idx, note):
-    """Grouped bars per member: Annex F, CIB W14, equal steel temperature; the required period as a marker."""
+    """Grouped bars per member, one per route present in the run (Annex F eq (F.1), its small-compartment
+    eq (F.3), CIB W14, equal steel temperature); the required period as a marker; 'n/a' where a route
+    present in the run does not apply to a member, '*' where a route would accept what the direct
+    check rejects (:func:`steelfire.outputs.present.route_conflicts`); every mark in the legend."""
     import numpy as np
+    from steelfire.outputs.present import route_conflicts
 
     horizon = doc["analysis"]["standard_horizon_min"]
-    names = [_mpl_text(doc["members"][i]["name"]) for i in idx]
+    members = doc["members"]
+    names = [_mpl_text(members[i]["name"]) for i in idx]
     x = np.arange(len(idx), dtype=float)
-    w = 0.26
+    catalogue = (("annex_f", "annex_f_min", "EN 1991-1-2 Annex F, eq (F.1)", ANNEX_F, None),
+                 ("annex_f_small_compartment", "annex_f_small_compartment_min", "Annex F, small compartment eq (F.3)",
+                  SMALL_COMPARTMENT, "...."),
+                 ("cib_w14", "cib_w14_min", "CIB W14", CIB_W14, "////"),
+                 ("equal_temperature", "equal_temperature_min", "equal steel temperature (direct)", EQUAL_T, None))
+    has_entry = [bool(members[i].get("equivalence")) for i in idx]
+    routes = [r for r in catalogue
+              if (r[0] == "equal_temperature" and any(has_entry))
+              or any(_num((m.get("equivalence") or {}).get(r[1])) for m in members)]
+    n = max(len(routes), 1)
+    w = 0.8 / n
     fig = _figure(3.6)
     ax = fig.add_subplot()
-    routes = (("annex_f_min", "EN 1991-1-2 Annex F, eq (F.1)", ANNEX_F, None),
-              ("cib_w14_min", "CIB W14", CIB_W14, "////"),
-              ("equal_temperature_min", "equal steel temperature", EQUAL_T, None))
-    beyond_drawn = False
-    for j, (key, label, colour, hatch) in enumerate(routes):
+    beyond_drawn = na_drawn = star_drawn = False
+    conflicts = {k: {c["route"] for c in route_conflicts(doc, members[i])} for k, i in enumerate(idx)}
+    for j, (route, key, label, colour, hatch) in enumerate(routes):
+        off = (j - (n - 1) / 2) * w
         vals, xs, beyond = [], [], []
         for k, i in enumerate(idx):
-            e = doc["members"][i].get("equivalence") or {}
+            e = members[i].get("equivalence") or {}
             v = e.get(key)
-            if v is None and key == "equal_temperature_min" and e:
-                beyond.append(x[k] + (j - 1) * w)
+            if not e:
                 continue
-            if _num(v):
+            if v is None and route == "equal_temperature":
+                beyond.append(x[k] + off)
+            elif _num(v):
                 vals.append(v)
-                xs.append(x[k] + (j - 1) * w)
-            elif e:
-                ax.annotate("n/a", xy=(x[k] + (j - 1) * w, 0), xytext=(0, 3), textcoords="offset points",
-                            ha="center", va="bottom", fontsize=7.5, color=STANDARD)
+                xs.append(x[k] + off)
+                if route in conflicts[k]:
+                    ax.annotate("*", xy=(x[k] + off, v), xytext=(0, 1), textcoords="offset points", ha="center",
+                                va="bottom", fontsize=11, fontweight="bold", color=INK)
+                    star_drawn = True
+            else:
+                ax.annotate("n/a", xy=(x[k] + off, 0), xytext=(0, 3), textcoords="offset points", ha="center",
+                            va="bottom", fontsize=7, color=STANDARD, rotation=90 if n > 3 else 0)
+                na_drawn = True
         if xs:
             ax.bar(xs, vals, width=w, color=colour, edgecolor=INK, linewidth=0.5, hatch=hatch, label=label)
         if beyond:
             ax.bar(beyond, [horizon] * len(beyond), width=w, color="white", edgecolor=EQUAL_T, linewidth=1.0,
-                   hatch="xx", label=f"equal temperature beyond the horizon (> {_fmt(horizon)} min)")
+                   hatch="xx", label=f"equal temperature beyond the horizon (> {_fmt(horizon, 'input')} min)")
             beyond_drawn = True
-    req = [(x[k], doc["members"][i]["required_minutes"]) for k, i in enumerate(idx)
-           if _num(doc["members"][i].get("required_minutes"))]
+    req = [(x[k], members[i]["required_minutes"]) for k, i in enumerate(idx)
+           if _num(members[i].get("required_minutes"))]
     if req:
         ax.scatter([r[0] for r in req], [r[1] for r in req], marker="D", s=30, color=MARKER, zorder=5,
                    label="required period")
         for xr, v in req:
-            ax.plot([xr - 1.6 * w, xr + 1.6 * w], [v, v], color=MARKER, lw=1.0, zorder=4)
+            ax.plot([xr - 0.45, xr + 0.45], [v, v], color=MARKER, lw=1.0, zorder=4)
+    if na_drawn:
+        ax.plot([], [], ls="none", marker=r"$\mathrm{n/a}$", markersize=14, color=STANDARD,
+                label="route not applicable to the member")
+    if star_drawn:
+        ax.plot([], [], ls="none", marker=r"$\ast$", markersize=9, color=INK,
+                label="unconservative here: would accept what the direct check rejects")
     ax.set_xticks(x)
     ax.set_xticklabels(names, rotation=30 if len(idx) > 4 else 0, ha="right" if len(idx) > 4 else "center")
     ax.set_xlim(-0.6, len(idx) - 0.4)
-    ax.set_ylim(bottom=0)
+    ax.set_ylim(bottom=0, top=ax.get_ylim()[1] * 1.06)
     ax.set_ylabel(r"equivalent time $t_\mathrm{e}$ [min]")
     ax.grid(axis="x", visible=False)
     handles, labels = ax.get_legend_handles_labels()
-    order = sorted(range(len(labels)), key=lambda j: labels[j] == "required period")
+    rank = {lab: j for j, (_, _, lab, _, _) in enumerate(routes)}
+    order = sorted(range(len(labels)), key=lambda j: rank.get(labels[j], 10 + j))
     fig.legend([handles[j] for j in order], [labels[j] for j in order], loc="outside upper center",
-               ncols=len(labels) if len(labels) <= 4 and not beyond_drawn else 3)
-    cap = ("Equivalent time of standard fire exposure per member by EN 1991-1-2 Annex F, CIB W14 and equal "
-           "steel temperature (the standard-fire time at which the member reaches its design-fire peak); "
-           "diamonds: the required period")
+               ncols=2 if (len(labels) > 4 or beyond_drawn or star_drawn) else len(labels))
+    shown = ", ".join(lab for _, _, lab, _, _ in routes)
+    cap = (f"Equivalent time of standard fire exposure per member: {shown} (the standard-fire time at which "
+           "the member reaches its design-fire peak); diamonds: the required period")
     cap += f"; shown: {note}." if note else "."
     return fig, cap
 
 
 # ----------------------------------------------------------------------------------------------
 # (d) protection thickness for sizing runs
+
+
+def _specified(s):
+    """The specified thickness of a sizing entry [mm] (``specified_mm``; ``given_mm`` in earlier documents)."""
+    return s.get("specified_mm", s.get("given_mm"))
 
 
 def thickness_figure(doc, idx, note):
@@ -383,16 +429,16 @@ def thickness_figure(doc, idx, note):
     ch = [c for c in ch if _num(c[1])]
     if ch:
         ax.scatter([c[0] for c in ch], [c[1] for c in ch], marker="D", s=30, color=MARKER, zorder=5, label="chosen")
-    cur = [(x[k], doc["members"][i]["sizing"].get("given_mm")) for k, i in enumerate(idx)]
+    cur = [(x[k], _specified(doc["members"][i]["sizing"])) for k, i in enumerate(idx)]
     cur = [c for c in cur if _num(c[1])]
     if cur:
         ax.scatter([c[0] for c in cur], [c[1] for c in cur], marker="_", s=260, linewidths=1.6, color=STANDARD,
-                   zorder=4, label="thickness given in the case")
+                   zorder=4, label="specified thickness (case)")
     for k, i in enumerate(idx):
         s = doc["members"][i]["sizing"]
         if s.get("achievable") is False:
             top = [v for v in (s.get("standard_period_mm"), s.get("burnout_mm"), s.get("chosen_mm"),
-                               s.get("given_mm")) if _num(v)]
+                               _specified(s)) if _num(v)]
             ax.annotate("not achievable", xy=(x[k], max(top) if top else 0.0), xytext=(0, 5),
                         textcoords="offset points", ha="center", va="bottom", fontsize=7.5, fontweight="bold",
                         rotation=90)
