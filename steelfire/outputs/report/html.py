@@ -155,11 +155,12 @@ def unit_html(u):
 
 
 def css_string(text) -> str:
-    """``text`` as a quoted CSS string, every character outside a plain set written as a hex escape
-    (so that no case text can end the string, the rule or the style element)."""
+    """``text`` as a quoted CSS string, every character outside a plain set written as a six-digit hex
+    escape (so that no case text can end the string, the rule or the style element). Spaces are escaped
+    too: a space after a hex escape would be taken as the escape's end and dropped."""
     out = []
     for ch in str(text):
-        if ch.isascii() and (ch.isalnum() or ch in " .,:;-_/()+#=[]"):
+        if ch.isascii() and (ch.isalnum() or ch in ".,:;-_/()+#=[]"):
             out.append(ch)
         else:
             out.append(f"\\{ord(ch):06x}")
@@ -578,14 +579,27 @@ ANNEX_F_ROWS = (
 )
 
 
+#: Keys of an equivalence-factor object that are not shown as rows (the method's name, flags, raw values).
+_FACTOR_SKIP = ("method", "protected")
+
+
 def _annex_f(doc):
     fac = (doc.get("fire") or {}).get("equivalence_factors") or {}
     cols = [(k, lab) for k, lab in (("annex_f_protected", "protected steel"), ("annex_f_bare", "bare steel"))
             if fac.get(k)]
     if not cols:
         return None
+    spec = list(ANNEX_F_ROWS)
+    known = {key.split(".")[0] for _, _, key, _, _ in spec}
+    for col, _ in cols:  # keys the report has no label for show under their own name
+        for key, v in fac[col].items():
+            if key in known or key in _FACTOR_SKIP or key.endswith("_raw") or isinstance(v, (dict, list)):
+                continue
+            known.add(key)
+            label, sym, unit, _ = _label_of("x." + key)
+            spec.append((label, sym, key, unit, ""))
     rows = []
-    for label, sym, key, unit, src in ANNEX_F_ROWS:
+    for label, sym, key, unit, src in spec:
         cells = []
         for col, _ in cols:
             full = f"fire.equivalence_factors.{col}.{key}"
@@ -602,19 +616,36 @@ def _annex_f(doc):
     return {"cols": [lab for _, lab in cols], "rows": rows}
 
 
+#: CIB W14 factor rows: (label, symbol, keys (the first present is shown), unit, source).
+CIB_ROWS = (
+    ("design fire load density", "q_f,d", ("design_fire_load_MJ_m2",), "MJ/m2", "EN 1991-1-2 eq (E.1)"),
+    ("thermal inertia", "b", ("thermal_inertia",), "J/(m2 s^0.5 K)", "Annex A (3)"),
+    ("conversion factor, by band of b", "c", ("c", "k_c"), "min m^2.25/MJ",
+     "CIB W14 (1986); values from memory, check against the source"),
+    ("band of b", "", ("c_band", "k_c_band"), "", ""),
+    ("ventilation factor A_f / (A_v A_t h_eq^1/2)^1/2", "w", ("w",), "m^-0.25", "CIB W14"),
+    ("equivalent time c w q_f,d", "t_e", ("t_e_min",), "min", "CIB W14"),
+    ("not applicable because", "", ("not_applicable_reason",), "", ""),
+)
+
+
 def _cib(doc):
-    base = "fire.equivalence_factors.cib_w14."
-    if not get(doc, "fire.equivalence_factors.cib_w14"):
+    obj = get(doc, "fire.equivalence_factors.cib_w14")
+    if not obj:
         return None
-    spec = [("design fire load density", "q_f,d", "design_fire_load_MJ_m2", "MJ/m2", "EN 1991-1-2 eq (E.1)"),
-            ("conversion factor, by band of b", "k_c", "k_c", "min m^2.25/MJ",
-             "CIB W14 (1986); values from memory, check against the source"),
-            ("band of b", "", "k_c_band", "", ""),
-            ("ventilation factor A_f / (A_v A_t h_eq^1/2)^1/2", "w", "w", "m^-0.25", "CIB W14"),
-            ("equivalent time k_c w q_f,d", "t_e", "t_e_min", "min", "CIB W14"),
-            ("not applicable because", "", "not_applicable_reason", "", "")]
-    return [_row(doc, lab, base + key, unit, src, "time" if key == "t_e_min" else None, sym)
-            for lab, sym, key, unit, src in spec if get(doc, base + key) is not None]
+    base = "fire.equivalence_factors.cib_w14."
+    rows, shown = [], set(_FACTOR_SKIP)
+    for lab, sym, keys, unit, src in CIB_ROWS:
+        shown.update(keys)
+        key = next((k for k in keys if obj.get(k) is not None), None)
+        if key is not None:
+            rows.append(_row(doc, lab, base + key, unit, src, "time" if key == "t_e_min" else None, sym))
+    for key, v in obj.items():  # keys the report has no label for show under their own name
+        if key in shown or v is None or isinstance(v, (dict, list)):
+            continue
+        label, sym, unit, _ = _label_of("x." + key)
+        rows.append(_row(doc, label, base + key, unit, "", None, sym))
+    return rows
 
 
 def _sizing(doc):

@@ -389,7 +389,7 @@ def time_equivalence_figure(doc, idx, note):
     order = sorted(range(len(labels)), key=lambda j: rank.get(labels[j], 10 + j))
     fig.legend([handles[j] for j in order], [labels[j] for j in order], loc="outside upper center",
                ncols=2 if (len(labels) > 4 or beyond_drawn or star_drawn) else len(labels))
-    shown = ", ".join(lab for _, _, lab, _, _ in routes)
+    shown = "; ".join(lab for _, _, lab, _, _ in routes)
     cap = (f"Equivalent time of standard fire exposure per member: {shown} (the standard-fire time at which "
            "the member reaches its design-fire peak); diamonds: the required period")
     cap += f"; shown: {note}." if note else "."
