@@ -18,6 +18,36 @@ __all__ = ["__version__", "load_case", "analyse", "size", "write_outputs", "Inpu
 from steelfire.errors import InputError  # noqa: E402
 
 
+def _numba_cache_dir():
+    """numba keeps its compiled kernels beside the package; where that folder cannot be written (an install
+    owned by another user, a read-only image), a user cache folder is used instead (XDG_CACHE_HOME or
+    ~/.cache, else the temporary folder). Set NUMBA_CACHE_DIR to choose one."""
+    import os
+    import tempfile
+    from pathlib import Path
+
+    if os.environ.get("NUMBA_CACHE_DIR"):
+        return
+    here = Path(__file__).resolve().parent / "models"
+    if os.access(here, os.W_OK) and (not (here / "__pycache__").exists() or os.access(here / "__pycache__", os.W_OK)):
+        return
+    for base in (os.environ.get("XDG_CACHE_HOME"), Path.home() / ".cache" if Path.home() else None,
+                 Path(tempfile.gettempdir())):
+        if base is None:
+            continue
+        d = Path(base) / f"steelfire-numba-{os.getuid() if hasattr(os, 'getuid') else 'user'}"
+        try:
+            d.mkdir(parents=True, exist_ok=True)
+        except OSError:
+            continue
+        if os.access(d, os.W_OK):
+            os.environ["NUMBA_CACHE_DIR"] = str(d)
+            return
+
+
+_numba_cache_dir()
+
+
 def load_case(path):
     """Read and validate a case file (TOML); see :func:`steelfire.inputs.case.load_case`."""
     from steelfire.inputs.case import load_case as _load

@@ -36,6 +36,10 @@ def _parser():
         q.add_argument("--time-step-s", default=None, metavar="S",  # a number, checked in _load
                        help="time step [s] (overrides analysis.time_step_s; bare steel <= 5 s, protected <= 30 s)")
         q.add_argument("--wide", action="store_true", help="terminal tables wider than 100 columns (names uncut)")
+        q.add_argument("--no-histories", action="store_true",
+                       help="with --out: no steel-temperature histories (histories.csv holds time and gas only)")
+        q.add_argument("--allow-outside", action="store_true",
+                       help="let the case read schedules and tables outside its own folder (absolute paths, ..)")
         q.add_argument("--out", default=None, metavar="DIR",
                        help="also write results.json, members.csv, histories.csv, figures (PNG, SVG) and a "
                             "self-contained report.html into DIR (created if missing)")
@@ -47,6 +51,10 @@ def _parser():
     s.add_argument("--out", default=None, metavar="DIR", help="also write the deterministic check's files, the "
                    "sampled inputs and per-member statistics (CSV) and their figures into DIR")
     s.add_argument("--wide", action="store_true", help="terminal tables wider than 100 columns (names uncut)")
+    s.add_argument("--no-histories", action="store_true",
+                   help="with --out: no steel-temperature histories (histories.csv holds time and gas only)")
+    s.add_argument("--allow-outside", action="store_true",
+                   help="let the case read schedules and tables outside its own folder (absolute paths, ..)")
     s.add_argument("--fires", default=None, metavar="N", help="number of sampled fires (overrides variability.fires)")
     s.add_argument("--seed", default=None, metavar="S", help="seed (overrides variability.seed); the same seed "
                    "gives the same answer whatever the workers")
@@ -57,7 +65,8 @@ def _parser():
     s.add_argument("--size", action="store_true", help="least supplied thickness per member whose probability "
                    "of exceeding its critical temperature is below variability.target_probability")
     z.add_argument("--csv", default=None, metavar="OUT",
-                   help="write the protection schedule (one row per member, chosen thickness) to the CSV file OUT")
+                   help="write the protection schedule (one row per member, chosen thickness) to the CSV file OUT "
+                        "(- for standard output)")
     return p
 
 
@@ -75,10 +84,10 @@ def _load(args):
     if args.out is not None:
         from steelfire.outputs.files import check_out_dir
 
-        check_out_dir(args.out)  # a bad --out fails (exit 2) before the analysis runs
+        check_out_dir(args.out, [args.case])  # a bad --out fails (exit 2) before the analysis runs
     if getattr(args, "csv", None) is not None:
-        check_csv_target(args.csv, args.case)
-    case = load_case(args.case)
+        check_csv_target(args.csv, [args.case])
+    case = load_case(args.case, allow_outside=args.allow_outside)
     if args.time_step_s is not None:
         try:
             step = float(args.time_step_s)
@@ -102,7 +111,7 @@ def _run_check(args) -> int:
     from steelfire.chain.analysis import analyse
 
     case = _load(args)
-    result = analyse(case, histories=args.out is not None)
+    result = analyse(case, histories=args.out is not None and not args.no_histories)
     _write(result, args, case, "check")
     _print(result, args)
     return EXIT_OK if result.all_ok else EXIT_FAIL
@@ -113,14 +122,12 @@ def _run_size(args) -> int:
 
     case = _load(args)
     if args.csv is not None:
-        from pathlib import Path
-
-        from steelfire.errors import InputError
-
-        if Path(args.csv).exists() and Path(args.csv).resolve() in {Path(q).resolve() for q in case.inputs}:
-            raise InputError("--csv", args.csv, "must not name an input of the case (case file, schedule, fire table)")
-    result = size(case, histories=args.out is not None)
+        check_csv_target(args.csv, case.inputs)
+    result = size(case, histories=args.out is not None and not args.no_histories)
     _write(result, args, case, "size")
+    if args.csv == "-":
+        write_schedule_csv(result, case, "-")   # the schedule is the output: no summary after it
+        return EXIT_OK if all(m.sizing["achievable"] for m in result.members) else EXIT_FAIL
     if args.csv is not None:
         write_schedule_csv(result, case, args.csv)
     _print(result, args, sizing=True)
@@ -153,7 +160,7 @@ def _run_sample(args) -> int:
     seed = _integer(args.seed, "--seed", 0)
     workers = _integer(args.workers, "--workers", 1)
     case = _load(args)
-    result = analyse(case, histories=args.out is not None)
+    result = analyse(case, histories=args.out is not None and not args.no_histories)
     run = sampling.run(case, fires=fires, seed=seed, workers=workers, scheduler=args.scheduler, size=args.size,
                        progress=False if args.json else None)
     section = run.to_dict()
@@ -189,26 +196,41 @@ def _sample_summary(section) -> str:
     return "\n".join(lines)
 
 
-def check_csv_target(path, case_path=None):
-    """--csv must name a file in an existing, writable folder (not a folder), and not an input."""
+def check_csv_target(path, inputs=()):
+    """``--csv`` must be ``-`` (standard output) or name a regular file (or a new one) in an existing,
+    writable folder, and not an input of the case."""
     import os
+    import stat
     from pathlib import Path
 
     from steelfire.errors import InputError
+    from steelfire.outputs.files import same_file
 
+    if path == "-":
+        return
+    if not str(path).strip():
+        raise InputError("--csv", path, "must name a file, or - for standard output")
     p = Path(path)
-    if case_path is not None and p.exists() and p.resolve() == Path(case_path).resolve():
-        raise InputError("--csv", str(path), "must not name the case file")
-    if p.is_dir():
-        raise InputError("--csv", str(path), "must name a file, not a folder")
+    try:
+        st = os.lstat(p)
+    except FileNotFoundError:
+        st = None
+    except OSError as exc:
+        raise InputError("--csv", str(path), f"cannot be used ({exc.strerror})") from None
+    if st is not None and not stat.S_ISREG(st.st_mode):
+        raise InputError("--csv", str(path), "must name a regular file (not a folder, device, pipe or link), "
+                         "or - for standard output")
+    if st is not None and any(same_file(p, Path(q)) for q in inputs if q is not None):
+        raise InputError("--csv", str(path), "must not name an input of the case (case file, schedule, fire table)")
     parent = p.parent if str(p.parent) else Path(".")
     if not parent.is_dir() or not os.access(parent, os.W_OK):
         raise InputError("--csv", str(path), "must be in an existing, writable folder")
 
 
 def write_schedule_csv(result, case, path):
-    """The protection schedule (:func:`steelfire.outputs.tables.schedule_csv`), written to a temporary
-    file in the same folder and renamed, so no half-written file is left."""
+    """The protection schedule (:func:`steelfire.outputs.tables.schedule_csv`) to standard output (``-``) or
+    to a file: written to a temporary file in the same folder (with the user's usual permissions) and
+    renamed, so that no half-written file is left."""
     import os
     import tempfile
     from pathlib import Path
@@ -216,9 +238,16 @@ def write_schedule_csv(result, case, path):
     from steelfire.outputs import document, tables
 
     text = tables.schedule_csv(document.build(result), case)
+    if path == "-":
+        sys.stdout.write(text)
+        sys.stdout.flush()
+        return
     p = Path(path)
     fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", suffix=".part", dir=str(p.parent if str(p.parent) else "."))
     try:
+        umask = os.umask(0)
+        os.umask(umask)
+        os.fchmod(fd, 0o666 & ~umask)
         with os.fdopen(fd, "w", newline="", encoding="utf-8") as fh:
             fh.write(text)
         os.replace(tmp, p)
@@ -259,11 +288,32 @@ def main(argv=None) -> int:
         sys.stderr.write(f"steelfire: error: {exc}\n")
         return EXIT_INPUT
     except KeyboardInterrupt:
-        sys.stderr.write("steelfire: interrupted; outputs left as they were before the run\n")
-        return EXIT_INTERRUPTED
+        return _interrupted()
+    except MemoryError:
+        sys.stderr.write("steelfire: error: out of memory; split the schedule, use a coarser time step, or run "
+                         "without --out (see the README's limits)\n")
+        return EXIT_INPUT
     except Exception as exc:  # an internal error: never reported as a member verdict
+        if _caused_by_interrupt(exc):
+            return _interrupted()
         return _internal_error(exc)
     return EXIT_INPUT
+
+
+def _interrupted() -> int:
+    sys.stderr.write("steelfire: interrupted; outputs left as they were before the run\n")
+    return EXIT_INTERRUPTED
+
+
+def _caused_by_interrupt(exc) -> bool:
+    """Whether ``exc`` comes of a Ctrl-C (numba's threads report it as a SystemError chained to it)."""
+    seen = set()
+    while exc is not None and id(exc) not in seen:
+        if isinstance(exc, KeyboardInterrupt):
+            return True
+        seen.add(id(exc))
+        exc = exc.__cause__ or exc.__context__
+    return False
 
 
 def _internal_error(exc) -> int:

@@ -2,6 +2,18 @@
 
 from __future__ import annotations
 
+#: The longest quotation of a value or a field in an error line [characters]: a value of 100 KB, or a
+#: file's contents, is never echoed whole.
+QUOTE_MAX = 80
+
+
+def quote(value, most: int = QUOTE_MAX) -> str:
+    """``repr(value)`` on one line (control characters escaped, as repr does for strings), cut to ``most``
+    characters with an ellipsis."""
+    text = repr(value)
+    text = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
+    return text if len(text) <= most else text[: most - 3] + "..."
+
 
 class InputError(ValueError):
     """Bad input, reported to the user as one line and exit code 2.
@@ -11,7 +23,7 @@ class InputError(ValueError):
     field : str
         Where the value came from, as the user wrote it (``member[2].thickness_mm``).
     value : object
-        The offending value (quoted with ``repr``).
+        The offending value (quoted with ``repr``, escaped and cut to :data:`QUOTE_MAX` characters).
     allowed : str
         What would have been accepted (``"a number > 0 [mm]"``).
     """
@@ -20,8 +32,17 @@ class InputError(ValueError):
         self.field = field
         self.value = value
         self.allowed = allowed
-        super().__init__(f"{field} = {value!r}: {allowed}")
+        shown = quote(field, 2 * QUOTE_MAX)[1:-1] if isinstance(field, str) else quote(field)
+        super().__init__(f"{shown or repr('')} = {quote(value)}: {_one_line(allowed)}")
+
+
+def _one_line(text) -> str:
+    return "".join(c if c.isprintable() else " " for c in str(text))
 
 
 class OutOfScopeError(InputError):
     """A value outside a method's validity range (refused unless allow_out_of_scope)."""
+
+
+class BudgetError(InputError):
+    """A run that would need more memory or time than the documented limits allow."""

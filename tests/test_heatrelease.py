@@ -6,6 +6,7 @@ import numpy as np
 import pytest
 from scipy.integrate import cumulative_trapezoid, trapezoid
 
+from steelfire.inputs.curves import read_heat_release_csv
 from steelfire.errors import InputError
 from steelfire.models.fire import heatrelease as hr
 
@@ -162,7 +163,7 @@ def test_table_held_at_last_value():
 def test_read_csv(tmp_path):
     p = tmp_path / "hrr.csv"
     p.write_text("time_min,heat_release_MW\n# measured\n0,0\n10,5\n20,0\n")
-    tab = hr.read_heat_release_csv(p)
+    tab = read_heat_release_csv(p)
     assert tab.energy_J(1200.0) == pytest.approx(3e9, rel=1e-12)  # hand calculation as above
     assert tab.source == "hrr.csv"
 
@@ -178,7 +179,7 @@ def test_read_csv_errors_name_the_row(tmp_path, text, field):
     p = tmp_path / "hrr.csv"
     p.write_text(text)
     with pytest.raises(InputError) as e:
-        hr.read_heat_release_csv(p)
+        read_heat_release_csv(p)
     assert e.value.field == field
 
 

@@ -23,6 +23,26 @@ CAUTIONS_LINE = ("CAUTION: simplified code methods within their validity limits;
 
 #: Relative thickness increase used to detect a burnout peak that rises with thickness.
 THICKNESS_PROBE = 0.10
+#: Budgets checked before any work: member-steps of one run (about a minute of kernel time on a 2-core
+#: machine), and values of the steel-temperature histories kept for --out (the history array and
+#: histories.csv: some hundreds of MB).
+MAX_MEMBER_STEPS = 1e10
+MAX_HISTORY_VALUES = 2e7
+
+
+def check_budget(case, n_grid, n_rows, n_std, histories):
+    """Refuse a run that would exceed the budgets above, with the figure and the ways out."""
+    from steelfire.errors import BudgetError
+
+    steps = float(n_grid) * n_rows * 2 + float(n_std) * 2 * len(case.members)
+    if steps > MAX_MEMBER_STEPS:
+        raise BudgetError("analysis.time_step_s", case.analysis.time_step_s,
+                          f"{steps:.3g} member-steps exceed the limit of {MAX_MEMBER_STEPS:.0e}: use a larger time step, "
+                          "a shorter duration or standard horizon, or split the schedule")
+    if histories and float(n_grid) * n_rows > MAX_HISTORY_VALUES:
+        raise BudgetError("--out", f"{len(case.members)} members x {n_grid} steps",
+                          f"{float(n_grid) * n_rows:.3g} history values exceed the limit of {MAX_HISTORY_VALUES:.0e}: use "
+                          "--no-histories, a larger time step, or split the schedule")
 
 
 def analyse(case, histories: bool = True) -> AnalysisResult:
@@ -55,6 +75,8 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
         g = np.asarray(fire.gas_temperature_C(t), dtype=float)
         exposures = thermal.Exposures.uniform(t, g, len(members))
     i_peak = int(np.argmax(g))
+    ts_n = int(case.analysis.standard_horizon_min * 60.0 / case.analysis.time_step_s) + 1
+    check_budget(case, len(t), sum(len(c) for c in exposures.member_columns), ts_n, histories)
     crit, source, resistance = verdicts.critical_temperatures(members, code, case.analysis.allow_out_of_scope,
                                                               case.label)
 
@@ -77,8 +99,16 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
     n = len(members)
     std_rows = cols.rows(alpha_c=alpha_std, nominal_fire=True, select=np.concatenate([np.arange(n)] * 2),
                          thresholds_C=np.concatenate([crit, peak]))
-    cross2 = thermal.run(code, ts, gs, std_rows).crossing_time_s
+    std_run = thermal.run(code, ts, gs, std_rows)
+    cross2 = std_run.crossing_time_s
     cross, equal_t = cross2[:n], cross2[n:]
+    for what, values in (("design fire", peak), ("standard fire", std_run.peak_C)):
+        bad = np.flatnonzero(~np.isfinite(values) | (values > 1e4))
+        if len(bad):
+            i = int(bad[0]) % n
+            raise InputError(f"{case.label(i)}.section_factor_per_m", members[i].section_factor_per_m,
+                             f"gives a steel temperature that diverges in the {what} (not finite or above 10 000 C): "
+                             "check the [code] values and the time step")
     factors, equiv = verdicts.equivalence(case, fire, sev, members, equal_t, cross, warnings)
 
     rising = []

@@ -203,6 +203,22 @@ def member_warnings(case, fire, cols, peak, last, rising):
         if m.protection in assessed:
             out += assessment_warnings(case.materials[m.protection], m.name, m.thickness_mm, m.section_factor_per_m,
                                        float(peak[i]), fire.cools)
+    # property tables and formulas used beyond their ends
+    beyond = {}
+    for i, m in enumerate(members):
+        if m.protection is None:
+            continue
+        tab = case.materials[m.protection].conductivity_table
+        if len(tab) > 1 and float(peak[i]) > tab[-1][0] + 1.0:
+            beyond.setdefault(m.protection, []).append((m.name, float(peak[i]), tab[-1][0]))
+    for mat, rows in beyond.items():
+        top = max(r[1] for r in rows)
+        out.append(f"Conductivity table of {mat} ends at {rows[0][2]:g} C; its last value is held up to {top:.0f} C "
+                   f"for {names_text(r[0] for r in rows)} (steel beyond the table).")
+    hot = [m.name for m, p in zip(members, peak) if p > 1200.0]
+    if hot:
+        out.append(f"Steel above 1200 C for {names_text(hot)}: EN 1993-1-2 eq (3.2) stops there; c_a is held at 650 "
+                   "J/(kg K) beyond (results beyond the clause's range).")
     uncredited = sorted({m.protection for m in members if m.protection is not None
                          and case.materials[m.protection].moisture_percent > 0
                          and case.materials[m.protection].moisture_delay_basis != "tests"})

@@ -157,10 +157,51 @@ class Case:
                                                               self.member_places.blocks if self.member_places else ()))
 
 
-def load_case(path) -> Case:
-    """Read and validate a case file (TOML). Raises InputError on any bad value."""
+def input_path(base_dir, name, field, allow_outside=False) -> Path:
+    """The file ``name`` a case names, resolved relative to the case's folder ``base_dir``.
+
+    Refused: an empty or over-long name; an absolute path or one leading out of the case's folder (unless
+    ``allow_outside``: a case from someone else must not make steelfire read, and quote, files elsewhere);
+    anything but an existing regular file (a folder, a device, a pipe)."""
+    import os
+    import stat
+
+    if not isinstance(name, str) or not name.strip():
+        raise InputError(field, name, "must name a file (relative to the case file)")
+    if len(name) > 1024 or any(len(part.encode()) > 255 for part in Path(name).parts):
+        raise InputError(field, name, "is too long for a file name")
+    base = Path(base_dir)
+    p = base / name
+    try:
+        resolved = p.resolve()
+        inside = resolved.is_relative_to(base.resolve())
+        st = os.stat(resolved)
+    except FileNotFoundError:
+        raise InputError(field, name, "must name an existing file (relative to the case file)") from None
+    except (OSError, RuntimeError) as exc:  # a symlink loop, a folder that cannot be searched, ...
+        raise InputError(field, name, f"cannot be read ({getattr(exc, 'strerror', None) or type(exc).__name__})") \
+            from None
+    if not inside and not allow_outside:
+        raise InputError(field, name, "must be a file in the case's folder or below (steelfire --allow-outside "
+                         "reads files elsewhere)")
+    if not stat.S_ISREG(st.st_mode):
+        raise InputError(field, name, "must be a regular file (not a folder, device or pipe)")
+    if not os.access(resolved, os.R_OK):
+        raise InputError(field, name, "cannot be read (permission denied)")
+    return p
+
+
+def load_case(path, allow_outside: bool = False) -> Case:
+    """Read and validate a case file (TOML). Raises InputError on any bad value. ``allow_outside``: the case
+    may read schedules and tables outside its own folder (absolute paths, ``..``)."""
     p = Path(path)
-    if not p.is_file():
+    try:
+        if len(str(path)) > 4096 or any(len(part.encode()) > 255 for part in p.parts):
+            raise InputError("case file", str(path), "is too long for a file name")
+        regular = p.is_file()
+    except OSError as exc:
+        raise InputError("case file", str(path), f"cannot be read ({exc.strerror})") from None
+    if not regular:
         raise InputError("case file", str(path), "must be an existing TOML file")
     try:
         with p.open("rb") as fh:
@@ -173,12 +214,13 @@ def load_case(path) -> Case:
         raise InputError("case file", p.name, "is nested too deeply to be a case file") from None
     except OSError as exc:
         raise InputError("case file", p.name, f"cannot be read ({exc.strerror})") from None
-    return case_from_dict(data, base_dir=p.parent, source=p)
+    return case_from_dict(data, base_dir=p.parent, source=p, allow_outside=allow_outside)
 
 
-def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
-    """Validate a case given as a dict of the TOML contract (paths relative to ``base_dir``)."""
-    _check_integers(data)
+def case_from_dict(data: dict, base_dir=".", source=None, allow_outside: bool = False) -> Case:
+    """Validate a case given as a dict of the TOML contract (paths relative to ``base_dir``; see
+    :func:`input_path` for ``allow_outside``)."""
+    _check_tree(data)
     top = TableReader(data, "", keys=TOP_KEYS)
     title = top.string("title", required=False, default="untitled case")
     code_data = top.raw("code", {})
@@ -186,7 +228,8 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
         raise InputError("code", code_data, "must be a table of code value names and numbers")
     code = codevalues.resolve(code_data)
     base = Path(base_dir)
-    fire = _read_fire(TableReader(top.raw("fire"), "fire", keys=FIRE_KEYS) if top.has("fire") else None, base)
+    fire = _read_fire(TableReader(top.raw("fire"), "fire", keys=FIRE_KEYS) if top.has("fire") else None, base,
+                      allow_outside)
     analysis = _read_analysis(top.raw("analysis", {}))
     record = _read_record(top.raw("record", {}))
     variability = None
@@ -224,9 +267,9 @@ def case_from_dict(data: dict, base_dir=".", source=None) -> Case:
         inputs.append(fire.heat_release_file)
     blocks = [member_rows.inline_rows(members_raw)]
     if top.has("members_file"):
-        sched = top.string("members_file")
-        blocks.append(read_schedule(base / sched))
-        inputs.append(base / sched)
+        sched = input_path(base, top.string("members_file"), "members_file", allow_outside)
+        blocks.append(read_schedule(sched))
+        inputs.append(sched)
     count = sum(b.n for b in blocks)
     if not count:
         raise InputError("member", None, "needs at least one [[member]] table or a members_file")
@@ -294,20 +337,39 @@ def _refuse_repeated_name(places, members):
         seen[m.name] = where
 
 
-def _check_integers(data):
-    """Refuse integers outside 64 bits anywhere in the data (TOML 1.0 integers are 64-bit); walked
-    without recursion, so that deep nesting cannot exhaust the stack."""
+#: Characters refused in any key or text of a case: the C0 and C1 controls and the Unicode line and
+#: paragraph separators (a newline in a name would forge a second error line; ESC reaches the terminal).
+_CONTROL = frozenset([chr(c) for c in range(32)] + [chr(127)] + [chr(c) for c in range(0x80, 0xA0)]
+                     + ["\u2028", "\u2029"])
+#: Texts where a line break (and a tab) is allowed.
+_MULTILINE = ("record.notes", "title")
+
+
+def _check_tree(data):
+    """Walk the whole case (without recursion, so deep nesting cannot exhaust the stack): refuse integers
+    outside 64 bits (TOML 1.0 integers are 64-bit), empty keys, and control characters in keys and texts."""
     stack = [(data, "")]
     while stack:
         v, where = stack.pop()
         items = v.items() if isinstance(v, dict) else enumerate(v, start=1)
         for k, x in items:
+            if isinstance(v, dict):
+                if k == "":
+                    raise InputError(f"{where}.\"\"" if where else '""', x, "empty keys are not allowed")
+                if any(c in _CONTROL for c in k):
+                    raise InputError(f"{where}.{k}" if where else k, x, "keys must not contain control characters")
+                at = f"{where}.{k}" if where else str(k)
+            else:
+                at = f"{where}[{k}]"
             t = type(x)
             if t is int and not (INT64_MIN <= x <= INT64_MAX):
-                at = (f"{where}.{k}" if where else str(k)) if isinstance(v, dict) else f"{where}[{k}]"
                 raise InputError(at, x, "integers must fit in 64 bits (TOML 1.0); give a number in the key's unit")
-            if t is dict or t is list:
-                stack.append((x, (f"{where}.{k}" if where else str(k)) if isinstance(v, dict) else f"{where}[{k}]"))
+            if t is str:
+                bad = [c for c in x if c in _CONTROL and not (at in _MULTILINE and c in "\n\t")]
+                if bad:
+                    raise InputError(at, x, "must not contain control characters (line breaks, escape codes)")
+            elif t is dict or t is list:
+                stack.append((x, at))
 
 
 def time_step_limit(members, code):
@@ -360,16 +422,15 @@ def check_protection_step(members, materials, code, time_step_s, field="analysis
             f"Ap/V = {m.section_factor_per_m:g} 1/m); give a thicker protection or a smaller time step")
 
 
-def _read_fire(t: TableReader | None, base_dir: Path) -> FireSpec:
+def _read_fire(t: TableReader | None, base_dir: Path, allow_outside=False) -> FireSpec:
     if t is None:
         raise InputError("fire", None, "is missing; needs at least curve and duration_min")
     curve = t.string("curve", choices=CURVES)
-    duration = t.number("duration_min", "min", lo=0.0, lo_open=True, hi=MAX_DURATION_MIN)
+    duration = t.number("duration_min", "min", lo=1.0, hi=MAX_DURATION_MIN)
     hc = t.number("convection_coefficient", "W/(m2 K)", required=False, lo=1.0, hi=500.0)
     file = table = None
     if curve == "table":
-        name = t.string("file")
-        file = (base_dir / name)
+        file = input_path(base_dir, t.string("file"), "fire.file", allow_outside)
         table = read_curve_csv(file)
         if duration * 60.0 > table.time_s[-1] + 1e-9:
             raise InputError("fire.duration_min", duration,
@@ -380,8 +441,8 @@ def _read_fire(t: TableReader | None, base_dir: Path) -> FireSpec:
     if t.has("heat_release_file"):
         if curve != "localised":
             raise InputError("fire.heat_release_file", t.raw("heat_release_file"), 'is only used with curve = "localised"')
-        hr_file = base_dir / t.string("heat_release_file")
-        from steelfire.models.fire.heatrelease import read_heat_release_csv
+        hr_file = input_path(base_dir, t.string("heat_release_file"), "fire.heat_release_file", allow_outside)
+        from steelfire.inputs.curves import read_heat_release_csv
 
         hr = read_heat_release_csv(hr_file)
     options = {}

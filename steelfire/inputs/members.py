@@ -60,7 +60,7 @@ MEMBER_NUMBERS = {
     "thickness_mm": ("mm", 0.0, 300.0),
     "shadow_factor": ("-", 0.0, 1.0),
     "section_factor_per_m": ("1/m", 0.0, 1000.0),
-    "required_minutes": ("min", 0.0, 1440.0),
+    "required_minutes": ("min", 1.0, 1440.0),
 }
 UTILISATION_RANGE = (0.013, 1.0)          # lo <= mu0 < hi, EN 1993-1-2 4.2.4(3), eq (4.22)
 MIN_SECTION_FACTOR_PROTECTED_PER_M = 1.0  # Ap/V; bare steel takes code["section_factor_min_bare_per_m"]
@@ -199,6 +199,8 @@ def _text_problem(v, choices=None, required=False):
         return ("is missing" + (f"; one of {', '.join(choices)}" if choices else "")) if required else None
     if not isinstance(v, str):
         return "must be a string" + (f": one of {', '.join(choices)}" if choices else "")
+    if any(not c.isprintable() for c in v):
+        return "must not contain control characters (line breaks, escape codes)"
     if choices is not None and v not in choices:
         return f"must be one of {', '.join(choices)}"
     return None
@@ -374,7 +376,7 @@ def _block(rows: MemberRows, materials, code):
                       and am_v[i] < MIN_SECTION_FACTOR_PROTECTED_PER_M, "section_factor_per_m",
                       f"must be >= {MIN_SECTION_FACTOR_PROTECTED_PER_M:g} 1/m"))
     unit, lo, hi = MEMBER_NUMBERS["required_minutes"]
-    rule(_first(rows, "required_minutes", lambda v: _number_problem(v, unit, lo, hi)))
+    rule(_first(rows, "required_minutes", lambda v: _number_problem(v, unit, lo, hi, lo_open=False)))
     rule(_first(rows, "position", _position_problem))
     # members checked by their resistance (EN 1993-1-2 4.2.3)
     rule(_first(rows, "steel_grade", _text_problem))

@@ -12,7 +12,7 @@ import math
 from pathlib import Path
 
 from steelfire.errors import InputError
-from steelfire.inputs.csvrows import read_rows_split
+from steelfire.inputs.csvrows import read_rows_split, shown_cell
 from steelfire.inputs.members import ABSENT, MemberRows
 
 #: Column -> type of the member keys a schedule may carry.
@@ -50,7 +50,7 @@ def read_schedule(path, field: str = "members_file") -> MemberRows:
     width = len(cols)
     for line, row in zip(lines, rows):
         if len(row) > width:
-            raise InputError(f"{p.name} row {line}", ",".join(row)[:80], f"has {len(row)} cells; the header has {width}")
+            raise InputError(f"{p.name} row {line}", f"{len(row)} cells", f"has more cells than the header ({width})")
     columns = convert_columns(cols, [r + [""] * (width - len(r)) if len(r) < width else r for r in rows],
                               lambda i, col: f"{p.name} row {lines[i]} column {col}")
     return MemberRows(len(rows), nest_positions(columns), lambda i: f"{p.name} row {lines[i]}")
@@ -70,11 +70,11 @@ def nest_positions(columns):
 
 def check_header(cols, where):
     """The header's member keys, checked: known, once each, with a name column."""
-    for c in cols:
+    for j, c in enumerate(cols, start=1):
         if c not in COLUMNS:
             close = difflib.get_close_matches(c, list(COLUMNS), n=2)
             hint = f"; did you mean {' or '.join(close)}?" if close else ""
-            raise InputError(where, c, "is not a member key" + hint)
+            raise InputError(where, shown_cell(c), f"column {j} is not a member key" + hint)
     if len(set(cols)) != len(cols):
         raise InputError(where, next(c for c in cols if cols.count(c) > 1), "appears twice")
     if "name" not in cols:
@@ -107,7 +107,7 @@ def convert_columns(cols, rows, where):
         allowed = ("must be a number (units are in the column name)" if kind is float else "must be true or false")
         if kind is float and _is_nonfinite(text):
             allowed = "must be a finite number"
-        raise InputError(where(i, col), text, allowed)
+        raise InputError(where(i, col), shown_cell(text), allowed)
     return columns
 
 
@@ -182,7 +182,7 @@ def read_workbook(path, field: str = "members_file") -> MemberRows:
     width = len(cols)
     for line, row in zip(lines, rows):
         if len(row) > width:
-            raise InputError(f"{where_sheet} row {line}", str(row)[:80], f"has {len(row)} cells; the header has {width}")
+            raise InputError(f"{where_sheet} row {line}", f"{len(row)} cells", f"has more cells than the header ({width})")
     columns = convert_columns(cols, [r + [None] * (width - len(r)) for r in rows],
                               lambda i, col: f"{where_sheet} row {lines[i]} column {col}")
     return MemberRows(len(rows), nest_positions(columns), lambda i: f"{where_sheet} row {lines[i]}")

@@ -57,21 +57,35 @@ def output_targets() -> list:
         [f"fig_{n}.{x}" for n in FIGURE_NAMES for x in ("png", "svg")]
 
 
-def check_out_dir(out_dir) -> Path:
+def check_out_dir(out_dir, inputs=()) -> Path:
     """Refuse an output directory that cannot receive the files, writing nothing.
 
-    Raises ``InputError("--out", str(out_dir), ...)`` for an existing regular file, a directory that is
-    not writable, a path under a regular file, or a directory holding a sub-directory where an output
-    file is to go. A missing directory is fine (:func:`write_outputs` creates it). The CLI may call
-    this before the analysis so that a bad ``--out`` fails fast; :func:`write_outputs` calls it again.
+    Raises ``InputError("--out", ...)`` for an empty name, an existing regular file, a directory that is
+    not writable, a path under a regular file, a path that cannot be resolved (a symlink loop), a target
+    name taken by anything but a regular file (a folder, a device, a pipe), or a target that is one of the
+    ``inputs`` (case file, schedule, tables: compared by resolved path and by inode). A missing directory
+    is fine (:func:`write_outputs` creates it). The CLI calls this before the analysis so that a bad
+    ``--out`` fails fast; :func:`write_outputs` calls it again.
     """
+    if out_dir is None or str(out_dir).strip() == "":
+        raise InputError("--out", out_dir, "must name a directory")
     out = Path(out_dir)
-    _check_out_dir(out, output_targets())
+    try:
+        _check_out_dir(out, output_targets())
+        _guard_inputs(out, output_targets(), inputs)
+    except InputError:
+        raise
+    except (OSError, RuntimeError) as exc:
+        raise InputError("--out", str(out), f"cannot be used ({getattr(exc, 'strerror', None) or type(exc).__name__})") \
+            from None
     return out
 
 
 def _check_out_dir(out: Path, targets) -> None:
+    import stat
+
     field_name = "--out"
+    out.resolve(strict=False)   # a symlink loop raises here
     if out.exists() or out.is_symlink():
         if not out.is_dir():
             raise InputError(field_name, str(out), "is an existing file, not a directory; name a directory")
@@ -79,8 +93,13 @@ def _check_out_dir(out: Path, targets) -> None:
             raise InputError(field_name, str(out), "is a directory that is not writable")
         for name in targets:
             p = out / name
-            if p.is_dir() and not p.is_symlink():
-                raise InputError(field_name, str(out), f"holds a directory named {name!r} where a file is to go")
+            try:
+                st = os.lstat(p)
+            except FileNotFoundError:
+                continue
+            if not stat.S_ISREG(st.st_mode):
+                raise InputError(field_name, str(out), f"holds {name!r}, which is not a regular file; steelfire "
+                                 "replaces only regular files")
         return
     parent = out.parent
     while not parent.exists():
@@ -93,21 +112,35 @@ def _check_out_dir(out: Path, targets) -> None:
         raise InputError(field_name, str(out), f"cannot be created: {str(parent)!r} is not writable")
 
 
-def _guard_inputs(out: Path, targets, case_path, case) -> None:
-    """Refuse to write over the case file or the tabulated fire it reads."""
-    inputs = []
-    if case_path is not None:
-        inputs.append(Path(case_path))
-    if case is not None and getattr(case.fire, "file", None) is not None:
-        inputs.append(Path(case.fire.file))
+def same_file(a: Path, b: Path) -> bool:
+    """Whether two paths name the same file (resolved path, or device and inode)."""
     try:
-        protected = {p.resolve() for p in inputs if p.exists()}
-        for name in targets:
-            if (out / name).resolve() in protected:
-                raise InputError("--out", str(out),
-                                 f"would overwrite the input file {name!r}; choose another directory")
+        if a.resolve() == b.resolve():
+            return True
+        sa, sb = os.stat(a), os.stat(b)
+        return (sa.st_dev, sa.st_ino) == (sb.st_dev, sb.st_ino)
     except OSError:
-        pass
+        return False
+
+
+def _guard_inputs(out: Path, targets, inputs) -> None:
+    """Refuse to write over any input of the case (case file, schedule, fire and heat-release tables)."""
+    existing = [Path(p) for p in inputs if p is not None and Path(p).exists()]
+    for name in targets:
+        t = out / name
+        if t.exists() and any(same_file(t, p) for p in existing):
+            raise InputError("--out", str(out), f"would overwrite the input file {name!r}; choose another directory")
+
+
+def remove_stale_parts(out: Path, targets) -> None:
+    """Remove the hidden temporary files an interrupted earlier run left for these targets."""
+    for name in targets:
+        for stale in out.glob(f".{name}.*{_TMP_SUFFIX}"):
+            try:
+                if stale.is_file() and not stale.is_symlink():
+                    stale.unlink()
+            except OSError:
+                pass
 
 
 def _write_temp(out: Path, name: str, data: bytes) -> Path:
@@ -194,9 +227,10 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
     from steelfire.outputs.report import html as report_html
     from steelfire.outputs.report import plots
 
-    out = check_out_dir(out_dir)
-    base_targets = output_targets()
-    _guard_inputs(out, base_targets, case_path, case)
+    inputs = ([case_path] if case_path is not None else []) + (list(case.inputs) if case is not None else [])
+    out = check_out_dir(out_dir, inputs)
+    if out.is_dir():
+        remove_stale_parts(out, output_targets())
 
     timings = {}
     t0 = time.perf_counter()

@@ -13,6 +13,16 @@ import numpy as np
 
 from steelfire.outputs.document import histories_array
 
+#: Characters that make a spreadsheet read a cell as a formula (CSV and xlsx formula injection); text that
+#: starts with one is written with a leading apostrophe, which spreadsheets show as text and never evaluate.
+FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
+
+
+def safe_text(text) -> str:
+    """A text cell for a file a spreadsheet may open: a leading apostrophe where it would start a formula."""
+    text = str(text)
+    return "'" + text if text.startswith(FORMULA_STARTS) else text
+
 _MEMBER_COLUMNS = ("name", "kind", "section_factor_per_m", "shadow_factor", "protection", "thickness_mm",
                    "utilisation", "critical_temperature_C", "critical_temperature_source",
                    "peak_steel_temperature_C", "time_of_peak_steel_min", "margin_C", "passes",
@@ -32,11 +42,13 @@ def _csv_value(v):
         return "true" if v else "false"
     if isinstance(v, float):
         return format_number(v)
+    if isinstance(v, int):
+        return str(v)
     if isinstance(v, (list, tuple)):
-        return ";".join(_csv_value(x) for x in v)
+        return safe_text(";".join(_csv_value(x) for x in v))
     if isinstance(v, dict):
-        return json.dumps(v, sort_keys=True)
-    return str(v)
+        return safe_text(json.dumps(v, sort_keys=True))
+    return safe_text(v)
 
 
 def format_number(v) -> str:
@@ -110,7 +122,7 @@ def histories_csv(result) -> tuple:
     arr = histories_array(result)
     names = list(result.table.name) if result.table.histories is not None else []
     buf = io.StringIO()
-    csv.writer(buf, lineterminator="\n").writerow(["time_min", "gas_C"] + names)
+    csv.writer(buf, lineterminator="\n").writerow(["time_min", "gas_C"] + [safe_text(n) for n in names])
     np.savetxt(buf, arr, fmt=["%.6g"] + ["%.2f"] * (arr.shape[1] - 1), delimiter=",", newline="\n")
     return buf.getvalue(), names
 
@@ -133,17 +145,13 @@ def schedule_csv(doc, case) -> str:
     for d, m in zip(doc["members"], case.members):
         s = d["sizing"]
         mat = case.materials.get(d["protection"]) if d["protection"] else None
-        w.writerow([d["name"], d["kind"], m.section or "", f"{m.section_factor_per_m:g}", d["protection"] or "bare",
-                    (mat.description if mat else ""), _fmt(s["chosen_mm"], "g", ""), s["governing"] or "",
-                    _fmt(s["standard_period_mm"], "g", ""), _fmt(s["burnout_mm"], "g", ""),
-                    _fmt(d["required_minutes"], "g", ""), f"{d['critical_temperature_C']:g}",
-                    f"{d['peak_steel_temperature_C']:g}", "yes" if s["achievable"] else "no", s["note"]])
+        w.writerow([safe_text(d["name"]), d["kind"], safe_text(m.section or ""), f"{m.section_factor_per_m:g}",
+                    safe_text(d["protection"] or "bare"), safe_text(mat.description if mat else ""),
+                    _fmt(s["chosen_mm"], "g", ""), s["governing"] or "", _fmt(s["standard_period_mm"], "g", ""),
+                    _fmt(s["burnout_mm"], "g", ""), _fmt(d["required_minutes"], "g", ""),
+                    f"{d['critical_temperature_C']:g}", f"{d['peak_steel_temperature_C']:g}",
+                    "yes" if s["achievable"] else "no", safe_text(s["note"])])
     return buf.getvalue()
-
-
-#: Characters that make a spreadsheet read a cell as a formula (CSV and xlsx injection); such text is written
-#: with a leading apostrophe, which spreadsheets show as text and do not evaluate.
-FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
 
 
 def members_xlsx(doc) -> bytes | None:
@@ -165,6 +173,7 @@ def members_xlsx(doc) -> bytes | None:
                 out.append(float(cell) if cell not in ("", "nan") and not cell.startswith("'") else cell)
             except ValueError:
                 out.append(cell)
+        out = [None if v == "" else v for v in out]
         sheet.append(out)
     for row in sheet.iter_rows():
         for c in row:

@@ -21,7 +21,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from pathlib import Path
 from types import MappingProxyType
 
 import numpy as np
@@ -287,43 +286,3 @@ def tabulated_heat_release(time_min, heat_release_MW, source: str = "table") -> 
         if not (math.isfinite(qi) and qi >= 0.0):
             raise InputError(f"{source} row {i + 1} heat_release_MW", float(qi), "must be a finite number >= 0 [MW]")
     return TabulatedHeatRelease(t * 60.0, q * 1e6, source)
-
-
-COLUMNS = ("time_min", "heat_release_MW")
-
-
-def read_heat_release_csv(path, field: str = "fire.heat_release_file") -> TabulatedHeatRelease:
-    """Read a CSV with a header ``time_min,heat_release_MW``; rows as :func:`tabulated_heat_release` wants.
-
-    Errors name the file, the row and the column.
-    """
-    # the inputs layer's CSV rules, imported on use: importing this module does not load that layer
-    from steelfire.inputs.csvrows import read_rows
-
-    p = Path(path)
-    numbered = read_rows(p, field, "two columns time_min,heat_release_MW")
-    if not numbered:
-        raise InputError(field, str(path), "is empty; needs a header time_min,heat_release_MW and rows")
-    header = [c.strip() for c in numbered[0][1]]
-    if header[:2] != list(COLUMNS):
-        raise InputError(f"{p.name} header", ",".join(header), "must be time_min,heat_release_MW")
-    times, values = [], []
-    for line, row in numbered[1:]:
-        if len(row) < 2:
-            raise InputError(f"{p.name} row {line}", ",".join(row), "needs two columns time_min,heat_release_MW")
-        vals = []
-        for col, cell in zip(COLUMNS, row[:2]):
-            try:
-                vals.append(float(cell))
-            except ValueError:
-                raise InputError(f"{p.name} row {line} {col}", cell.strip(), "must be a number") from None
-        t, q = vals
-        if not math.isfinite(t) or (not times and t != 0.0) or (times and t <= times[-1]):
-            raise InputError(f"{p.name} row {line} time_min", t, "times must start at 0 and increase strictly [min]")
-        if not (math.isfinite(q) and q >= 0.0):
-            raise InputError(f"{p.name} row {line} heat_release_MW", q, "must be a finite number >= 0 [MW]")
-        times.append(t)
-        values.append(q)
-    if len(times) < 2:
-        raise InputError(field, str(path), "needs at least two data rows")
-    return TabulatedHeatRelease(np.array(times) * 60.0, np.array(values) * 1e6, p.name)
