@@ -1,12 +1,19 @@
-"""steelfire benchmarks: prints figures and ratios measured in one run (no pass/fail).
+"""steelfire benchmarks: figures and ratios measured in one run (printed, never asserted).
 
     python benchmarks/run.py            # all figures
     python benchmarks/run.py --quick    # fewer repeats
 
-Figures: ns per member-step of a tight plain-Python twin of eq (4.27), the scalar numba kernel and
-the batch kernel (1 and 2 threads); time to size a 1,000-member schedule on both criteria; where a
-20,000-member `steelfire check` spends its time (benchmarks/check_profile.py); wall time of
-`steelfire check` on the largest bundled case with a warm and a cold numba cache.
+* the batch kernels (EN 1993-1-2 eq (4.25), (4.27)): ns per member-step beside a tight plain-Python
+  twin of eq (4.27), on one and two threads; the same rows as one fire and spread over several fires
+  (the gas matrix);
+* sizing a 1,000-member schedule on both criteria;
+* a 1,000-member schedule checked and sized with critical temperatures from resistance (EN 1993-1-2
+  4.2.3) against the same schedule with the critical temperatures given;
+* where a 20,000-member `steelfire check` spends its time (benchmarks/check_profile.py);
+* the wall time of `steelfire check` on the bundled case with the most members, cold and warm cache.
+
+Times are thread CPU time where one thread runs (steadier on a shared machine) and wall time otherwise.
+The conduction model and the sampling have their own scripts (conduction_speed.py, sample_bench.py).
 """
 
 from __future__ import annotations
@@ -66,230 +73,73 @@ def tight_twin(time_s, gas_C, ap_v, d_p, rho_p, c_p, lam, rho_a=7850.0):
     return peak
 
 
-def best_of(fn, repeats):
+def timed(fn, repeats, clock=time.perf_counter):
+    """(best, median) of ``repeats`` calls [s]."""
     times = []
     for _ in range(repeats):
-        t0 = time.perf_counter()
+        t0 = clock()
         fn()
-        times.append(time.perf_counter() - t0)
+        times.append(clock() - t0)
     return min(times), statistics.median(times)
 
 
-def members(n, rng, grid):
-    """Members across the kernel's input space: bare, protected constant / tabulated lambda, moisture."""
-    kind = rng.integers(0, 4, n)          # 0 bare, 1 constant, 2 tabulated, 3 constant + moisture
-    bare = kind == 0
-    amv = rng.uniform(50.0, 300.0, n)
+def member_rows(n, rng, fires=1):
+    """Rows across the kernels' input space: bare, protected with constant / tabulated lambda, moisture."""
+    kind = rng.integers(0, 4, n)
     d = rng.uniform(0.008, 0.05, n)
-    rho = np.where(kind == 2, 1300.0, 800.0)
-    c = np.where(kind == 2, 1200.0, 1700.0)
-    lam_T = np.tile([20.0, 300.0, 500.0, 700.0], (n, 1))
     lam_v = np.where((kind == 2)[:, None], np.tile([0.1, 0.12, 0.16, 0.22], (n, 1)), 0.2)
-    lam_n = np.where(kind == 2, 4, 1).astype(np.int64)
-    delay = np.where(kind == 3, heat.moisture_delay_s(5.0, 800.0, 1.0, 0.2) * d ** 2, 0.0)
-    return bare, amv, d, rho, c, lam_T, lam_v, lam_n, delay
+    return heat.Rows(
+        fire=(np.arange(n) % fires).astype(np.int64), bare=kind == 0,
+        section_factor_per_m=rng.uniform(50.0, 300.0, n), alpha_c=np.full(n, 25.0), thickness_m=d,
+        density=np.where(kind == 2, 1300.0, 800.0), specific_heat=np.where(kind == 2, 1200.0, 1700.0),
+        conductivity_C=np.tile([20.0, 300.0, 500.0, 700.0], (n, 1)), conductivity=lam_v,
+        conductivity_n=np.where(kind == 2, 4, 1).astype(np.int64),
+        moisture_delay_s=np.where(kind == 3, 60.0 * 5.0 * 800.0 * d ** 2 / (5 * 0.2), 0.0),
+        threshold_C=np.full(n, 550.0))
 
 
 def kernel_figures(repeats):
-    """Interleaved rounds (twin, scalar, batch on 1 thread, batch on 2 threads), so that a machine
-    whose speed drifts during the run affects every figure alike; medians over the rounds."""
+    """ns per member-step: the twin, the kernels on 1 and 2 threads, one fire and eight fires."""
     t = np.arange(0.0, 240 * 60.0 + 1, 5.0)
     g = nominal.standard_fire(t)
     steps = len(t) - 1
     rng = np.random.default_rng(7)
+    n = 4000
+    one = member_rows(n, rng)
+    eight = one._replace(fire=(np.arange(n) % 8).astype(np.int64))
+    g8 = np.column_stack([g * (0.9 + 0.025 * k) for k in range(8)])
+    prot = one.take(~one.bare)
+    run = dict(emissivity_resultant=0.7, steel_density_kg_m3=7850.0)
     tl, gl = list(map(float, t)), list(map(float, g))
-    n_py, n_sc, n = 6, 300, 4000
-    lam_T, lam_v = np.array([20.0]), np.array([0.2])
-
-    def one(ap):
-        return heat.protected_history(t, g, ap, 0.02, 800.0, 1700.0, lam_T, lam_v, 1, 0.0, 7850.0)
-
     ref = tight_twin(tl, gl, 150.0, 0.02, 800.0, 1700.0, 0.2)
-    assert abs(one(150.0).max() - ref) <= 1e-9 * abs(ref), "scalar kernel and twin disagree"
-    arr = members(n, rng, t)
-    thr = np.full(n, 550.0)
-    q = np.zeros(0, dtype=np.int64)
-
-    def batch():
-        heat.batch(t, g, arr[0], arr[1], 25.0, 0.7, 7850.0, *arr[2:], thr, q, False)
-
-    # the twin is eq (4.27) alone; the same members without the bare ones (a quarter, and cheaper)
-    prot = ~arr[0]
-    arr_p = [a[prot] for a in arr]
-    n_p = int(prot.sum())
-
-    def batch_protected():
-        heat.batch(t, g, arr_p[0], arr_p[1], 25.0, 0.7, 7850.0, *arr_p[2:], thr[:n_p], q, False)
-
-    batch()
-    batch_protected()
-    threads = sorted({1, min(2, numba.config.NUMBA_NUM_THREADS)})
-    figs = {"twin": [], "scalar": [], 1: [], 2: [], "protected": [], "pair": []}
-    best = {}  # fastest single call per thread count
-    threads0 = numba.get_num_threads()
-    for _ in range(max(3, repeats)):
-        t0 = time.perf_counter()
-        for i in range(n_py):
-            tight_twin(tl, gl, 100.0 + 20 * i, 0.02, 800.0, 1700.0, 0.2)
-        figs["twin"].append((time.perf_counter() - t0) / (n_py * steps) * 1e9)
-        t0 = time.perf_counter()
-        for i in range(n_sc):
-            one(50.0 + 0.5 * i)
-        figs["scalar"].append((time.perf_counter() - t0) / (n_sc * steps) * 1e9)
-        # one and two threads call for call: the speed of this virtual machine's cores drifts by up
-        # to 1.4x over a few hundred ms (measured here), so each two-thread call is set beside the
-        # one-thread call just before it; the idle second core is first woken by a short parallel
-        # loop (untimed; after a one-thread call it takes a few ms to come up to speed)
-        rounds = {th: [] for th in threads}
-        for _ in range(3):
-            for th in threads:
-                numba.set_num_threads(th)
-                if th > 1:
-                    wake_cores()
-                t0 = time.perf_counter()
-                batch()
-                rounds[th].append((time.perf_counter() - t0) / (n * steps) * 1e9)
-        for th in threads:
-            figs[th].append(statistics.median(rounds[th]))
-            best[th] = min(best.get(th, math.inf), min(rounds[th]))
-        if 2 in rounds:
-            figs["pair"] += [a / b for a, b in zip(rounds[1], rounds[2])]
-        numba.set_num_threads(1)
-        t0 = time.perf_counter()
-        batch_protected()
-        figs["protected"].append((time.perf_counter() - t0) / (n_p * steps) * 1e9)
-    numba.set_num_threads(threads0)
-    med = {k: statistics.median(v) for k, v in figs.items() if v}
-    ns_py, ns_sc = med["twin"], med["scalar"]
-    print(f"kernel: eq (4.27)/(4.25), standard fire 240 min at 5 s ({steps} steps); medians of "
-          f"{len(figs['twin'])} interleaved rounds")
-    print(f"  plain-Python tight twin     {ns_py:8.1f} ns/member-step   (1.0x)")
-    print(f"  scalar numba kernel         {ns_sc:8.1f} ns/member-step   ({ns_py / ns_sc:5.1f}x twin)")
-    for th in threads:
-        print(f"  batch kernel, {th} thread{'s' if th > 1 else ' '}      {med[th]:8.1f} ns/member-step   "
-              f"({ns_py / med[th]:5.1f}x twin; range {min(figs[th]):.1f}-{max(figs[th]):.1f})")
-    print(f"  batch, protected only, 1 th {med['protected']:8.1f} ns/member-step   "
-          f"({ns_py / med['protected']:5.1f}x twin: eq (4.27) alone, as the twin)")
-    if 2 in med:
-        print(f"  two threads / one thread    {med['pair']:8.2f}x   (median of {len(figs['pair'])} adjacent "
-              f"pairs of calls; ratio of the medians {med[1] / med[2]:.2f}x; of the fastest calls "
-              f"{best[1]:.2f} / {best[2]:.2f} ns: {best[1] / best[2]:.2f}x)")
-    rates = machine_rates()
-    floor = hardware_floor_ns(rates)
-    print(f"  estimated floor, one core   {floor:8.2f} ns/member-step   ({MIX_OPS:.0f} vector operations and "
-          f"{DIVISIONS} division per member-step at this core's measured {rates[0]:.0f} multiply-add lane-ops "
-          f"and {rates[1]:.1f} divisions per ns; batch 1 thread is {med[1] / floor:.1f}x it)")
-    print(f"  estimated one-chain latency {latency_chain_ns():8.1f} ns/member-step   (what the scalar kernel "
-          f"can reach; it is at {ns_sc / latency_chain_ns():.1f}x)")
-    return med
+    twin_b, twin_m = timed(lambda: tight_twin(tl, gl, 150.0, 0.02, 800.0, 1700.0, 0.2), repeats)
+    single = heat.uniform_rows(1, bare=False, section_factor_per_m=150.0, thickness_m=0.02, density=800.0,
+                               specific_heat=1700.0, conductivity=0.2)
+    got = heat.run(heat.Fires(t, g[:, None]), single, **run).peak_C[0]
+    assert abs(got - ref) <= 1e-9 * ref, "kernel and twin disagree"
+    print(f"kernels (standard fire 240 min at 5 s, {n} members):")
+    print(f"  plain-Python twin of eq (4.27)     {twin_m / steps * 1e9:8.1f} ns/member-step")
+    out = {}
+    for th in sorted({1, min(2, numba.config.NUMBA_NUM_THREADS)}):
+        numba.set_num_threads(th)
+        clock = time.thread_time if th == 1 else time.perf_counter
+        for label, rows, gas in (("all kinds, one fire", one, g[:, None]), ("protected, one fire", prot, g[:, None]),
+                                 ("all kinds, 8 fires", eight, g8)):
+            heat.run(heat.Fires(t, gas), rows, **run)
+            b, m = timed(lambda: heat.run(heat.Fires(t, gas), rows, **run), repeats, clock)
+            per = m / (steps * len(rows.fire)) * 1e9
+            out[(th, label)] = per
+            print(f"  batch, {th} thread{'s' if th > 1 else ' '}, {label:22s} {per:6.2f} ns/member-step "
+                  f"(best {b / (steps * len(rows.fire)) * 1e9:.2f}); twin / batch {twin_m / steps * 1e9 / per:5.0f}x")
+    numba.set_num_threads(numba.config.NUMBA_NUM_THREADS)
+    return out
 
 
-#: Vector arithmetic per member-step of the batch kernels (adds, multiplies, compares, selects, max,
-#: min, and/or; a fused multiply-add counted as two; divisions apart), counted in the compiled member
-#: loops of the time loop on an AVX2 core (ymm instructions per 4 members, numba's inspect_asm with
-#: an empty cache): bare steel 49; protected steel 98 (c_a and the division 38, e^(phi/10) - 1 33,
-#: the increment, its rules, the moisture plateau, peak and crossing 27); a conductivity table adds
-#: 4 for its first knot and 5 for each knot after it. Loads, stores, moves and loop control apart.
-BARE_OPS, PROTECTED_OPS, TABLE_OPS, KNOT_OPS, DIVISIONS = 49, 98, 4, 5, 1
-#: The benchmark's members (``members``): a quarter each bare, constant, tabulated (4 knots),
-#: constant with moisture.
-MIX_OPS = (BARE_OPS + PROTECTED_OPS + (PROTECTED_OPS + TABLE_OPS + 3 * KNOT_OPS) + PROTECTED_OPS) / 4.0
-
-
-@numba.njit(parallel=True)
-def _spin(a):
-    for i in numba.prange(a.shape[0]):
-        x = a[i]
-        for _ in range(200_000):
-            x = x * 0.9999999 + 1e-7
-        a[i] = x
-    return a
-
-
-def wake_cores():
-    """A few ms of arithmetic on every thread: an idle virtual core takes that long to come up to
-    speed (seen here: the first 10-15 ms of two-thread work after a one-thread spell run slower)."""
-    a = np.ones(numba.get_num_threads())
-    for _ in range(20):
-        _spin(a)
-
-
-#: Doubles the rate loops work on: a compile-time width, so that the compiler keeps them in registers.
-RATE_WIDTH = 128
-
-
-@numba.njit(error_model="numpy")
-def _mul_add_loop(a, reps):
-    for _ in range(reps):
-        for i in range(RATE_WIDTH):
-            a[i] = a[i] * 0.9999999 + 1e-7
-    return a
-
-
-@numba.njit(error_model="numpy")
-def _divide_loop(a, reps):
-    for _ in range(reps):
-        for i in range(RATE_WIDTH):
-            a[i] = 1.0000001 / a[i]
-    return a
-
-
-def machine_rates(reps=200_000):
-    """What one core does per ns, measured: (multiply-add lane-ops, divisions).
-
-    Small numba loops over 128 doubles (held in vector registers), 128 independent chains,
-    vectorised as the batch kernels are (no fast-math): ``a = a * c + d`` counts two operations per
-    element, ``a = c / a`` one division. Best of five, one thread: the arithmetic peak of the core,
-    not counting the loads and stores a real kernel also makes.
-    """
-    threads0 = numba.get_num_threads()
-    numba.set_num_threads(1)
-    out = []
-    for fn, ops in ((_mul_add_loop, 2), (_divide_loop, 1)):
-        a = np.linspace(1.0, 2.0, RATE_WIDTH)
-        fn(a, 10)
-        best = math.inf
-        for _ in range(5):
-            t0 = time.perf_counter()
-            fn(a, reps)
-            best = min(best, time.perf_counter() - t0)
-        out.append(ops * RATE_WIDTH * reps / best / 1e9)
-    numba.set_num_threads(threads0)
-    return tuple(out)
-
-
-def hardware_floor_ns(rates=None, ops=None):
-    """Throughput floor of one member-step on one core [ns]: its vector arithmetic at the measured
-    multiply-add rate plus its division at the measured division rate (see ``machine_rates``)."""
-    mul_add, div = machine_rates() if rates is None else rates
-    return (MIX_OPS if ops is None else ops) / mul_add + DIVISIONS / div
-
-
-def latency_chain_ns(ghz=None):
-    """One member alone (the scalar kernel): the step is a dependent chain of about 70 cycles
-    (c_a 13-16, a division 13, libm exp about 20, multiplies and adds 4 each)."""
-    if ghz is None:
-        ghz = cpu_ghz()
-    return 70.0 / ghz
-
-
-def cpu_ghz():
-    try:
-        with open("/proc/cpuinfo") as fh:
-            mhz = [float(line.split(":")[1]) for line in fh if line.lower().startswith("cpu mhz")]
-        if mhz:
-            return max(mhz) / 1000.0
-    except OSError:
-        pass
-    return 2.5
-
-
-def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
-    """1,000 members across the kernel's input space on the parametric fire of cases/archive_room.toml,
-    run for 240 min at 5 s: bare, protected with constant and tabulated conductivity, with moisture."""
-    import sys as _sys
-
-    if _sys.version_info >= (3, 11):
+def sizing_case(n=1000, seed=3, thickness=False, as_dict=False, resistance=False):
+    """``n`` invented members on the parametric fire of cases/archive_room.toml, run for 240 min at 5 s:
+    bare, protected with constant and tabulated conductivity, with moisture; with ``resistance`` the
+    protected ones are columns and beams checked by their resistance (catalogue sections)."""
+    if sys.version_info >= (3, 11):
         import tomllib
     else:  # pragma: no cover
         import tomli as tomllib
@@ -298,16 +148,16 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
     base = tomllib.loads((ROOT / "cases" / "archive_room.toml").read_text())
     base["fire"]["duration_min"] = 240.0
     base["analysis"] = {"time_step_s": 5.0, "standard_horizon_min": 240.0}
+    supply = {"min_thickness_mm": 5.0, "max_thickness_mm": 100.0, "thickness_step_mm": 0.5}
     base["materials"] = {
-        "board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0, "min_thickness_mm": 5.0,
-                  "max_thickness_mm": 100.0, "thickness_step_mm": 0.5},
+        "board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0, **supply},
         "wet": {"density": 600.0, "conductivity": 0.15, "specific_heat": 1200.0, "moisture_percent": 3.0,
-                "min_thickness_mm": 5.0, "max_thickness_mm": 100.0, "thickness_step_mm": 0.5},
+                "moisture_delay_basis": "tests", **supply},
         "table": {"density": 1300.0, "conductivity": [[20.0, 0.10], [300.0, 0.12], [500.0, 0.16], [700.0, 0.22]],
-                  "specific_heat": 1200.0, "min_thickness_mm": 5.0, "max_thickness_mm": 100.0,
-                  "thickness_step_mm": 0.5},
+                  "specific_heat": 1200.0, **supply},
     }
     rng = np.random.default_rng(seed)
+    sections = ["HEB 200", "HEB 260", "HEB 300", "HEA 300", "IPE 400", "IPE 500"]
     members = []
     for i in range(n):
         kind = i % 4
@@ -318,6 +168,15 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
             m["protection"] = ("board", "table", "wet")[kind - 1]
             if thickness:
                 m["thickness_mm"] = float(rng.uniform(10.0, 40.0))
+            if resistance:
+                sec = sections[i % len(sections)]
+                del m["section_factor_per_m"], m["critical_temperature_C"]
+                m.update(section=sec, encasement="box", steel_grade="S355")
+                if sec.startswith("IPE"):
+                    m.update(kind="beam", laterally_restrained=True, moment_y_kNm=float(rng.uniform(60.0, 200.0)))
+                else:
+                    m.update(kind="column", axial_force_kN=float(rng.uniform(300.0, 1500.0)),
+                             buckling_length_m=float(rng.uniform(3.0, 4.5)))
         else:
             m["required_minutes"] = 15.0
         members.append(m)
@@ -326,22 +185,41 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False):
 
 
 def sizing_figures(repeats):
-    from steelfire.chain.analysis import size, size_members
+    from steelfire.chain.sizing import size, size_members
 
     case = sizing_case()
-    size_members(case)  # warm
-    b, med = best_of(lambda: size_members(case), max(2, repeats // 2))
+    size_members(case)
+    b, med = timed(lambda: size_members(case), max(2, repeats // 2))
     calls = size_members(case)[1]
-    b2, med2 = best_of(lambda: size(case, histories=False), max(2, repeats // 2))
-    print(f"sizing 1,000 members (both criteria, archive_room fire 240 min at 5 s): "
-          f"{med:.2f} s median (best {b:.2f}, {calls} kernel calls); with the check at the chosen "
-          f"thicknesses {med2:.2f} s median")
+    b2, med2 = timed(lambda: size(case, histories=False), max(2, repeats // 2))
+    print(f"sizing 1,000 members (both criteria, archive_room fire 240 min at 5 s): {med:.2f} s median "
+          f"(best {b:.2f}, {calls} kernel calls); with the checks at the chosen and the specified thicknesses "
+          f"{med2:.2f} s median")
     return med, med2
 
 
+def resistance_figures(repeats):
+    """check and size of 1,000 members with critical temperatures from resistance, against the same
+    members with critical temperatures given (the cost of EN 1993-1-2 4.2.3 over the schedule)."""
+    from steelfire.chain.analysis import analyse
+    from steelfire.chain.sizing import size
+
+    given = sizing_case(thickness=True)
+    by_res = sizing_case(thickness=True, resistance=True)
+    out = {}
+    for label, fn in (("check", lambda c: analyse(c, histories=False)), ("size", lambda c: size(c, histories=False))):
+        fn(given), fn(by_res)
+        a, b = [], []
+        for _ in range(max(2, repeats // 2)):
+            t0 = time.perf_counter(); fn(given); a.append(time.perf_counter() - t0)
+            t0 = time.perf_counter(); fn(by_res); b.append(time.perf_counter() - t0)
+        out[label] = statistics.median(b) / statistics.median(a)
+        print(f"{label} of 1,000 members: critical temperatures given {statistics.median(a):.2f} s, from resistance "
+              f"{statistics.median(b):.2f} s (ratio {out[label]:.2f})")
+    return out
+
+
 def overhead_figures(members=20000):
-    """A 20,000-member check through the CLI (benchmarks/check_profile.py): the whole command, its
-    start-up, and the run after start-up split into kernels and the per-member work around them."""
     import check_profile
 
     f = check_profile.measure(members)
@@ -350,57 +228,33 @@ def overhead_figures(members=20000):
 
 
 def largest_case():
-    """The bundled case with the most members (the schedule of a members_file counted)."""
     from steelfire import load_case
 
     cases = sorted((ROOT / "cases").glob("*.toml"))
     return max(cases, key=lambda p: len(load_case(p).members))
 
 
-#: Runs ``python -m steelfire ARGS`` as if scipy were not installed (``pip install .`` does not
-#: install it; only the tests need it): an import of it fails at once, as it does there.
-WITHOUT_SCIPY = ("import runpy, sys; sys.modules['scipy'] = None; sys.argv = ['steelfire'] + sys.argv[1:]; "
-                 "runpy.run_module('steelfire', run_name='__main__', alter_sys=True)")
-
-
 def check_wall_times(repeats):
-    """Wall time of ``steelfire check`` on the largest bundled case in a new process: cold numba
-    cache, then warm, the latter both as installed for use (no scipy) and, where scipy is
-    importable here, as in the test environment (numba then imports scipy.linalg on its first
-    kernel load to look for BLAS). The two warm forms alternate, so that drift affects both alike."""
-    import importlib.util
-
+    """Wall time of ``steelfire check`` on the largest bundled case in a new process, cold and warm cache."""
     largest = largest_case()
-    args = ["check", str(largest), "--json"]
-    cmd = [sys.executable, "-m", "steelfire", *args]
-    plain = [sys.executable, "-c", WITHOUT_SCIPY, *args]
-    # warm means every cache warm: numba's and Python's bytecode (an installed package has its .pyc)
+    cmd = [sys.executable, "-m", "steelfire", "check", str(largest), "--json"]
     env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
     cold = []
     for _ in range(max(1, repeats // 3)):
         cache = tempfile.mkdtemp(prefix="steelfire-numba-cache-")
-        env_cold = dict(env, NUMBA_CACHE_DIR=cache)
         t0 = time.perf_counter()
-        subprocess.run(plain, env=env_cold, capture_output=True, cwd=ROOT)
+        subprocess.run(cmd, env=dict(env, NUMBA_CACHE_DIR=cache), capture_output=True, cwd=ROOT)
         cold.append(time.perf_counter() - t0)
         shutil.rmtree(cache, ignore_errors=True)
-    with_scipy = importlib.util.find_spec("scipy") is not None
-    forms = {"plain": plain, "scipy": cmd} if with_scipy else {"plain": plain}
-    for c in forms.values():
-        subprocess.run(c, env=env, capture_output=True, cwd=ROOT)
-    warm = {k: [] for k in forms}
+    subprocess.run(cmd, env=env, capture_output=True, cwd=ROOT)
+    warm = []
     for _ in range(repeats):
-        for k, c in forms.items():
-            t0 = time.perf_counter()
-            subprocess.run(c, env=env, capture_output=True, cwd=ROOT)
-            warm[k].append(time.perf_counter() - t0)
-    med = {k: statistics.median(v) for k, v in warm.items()}
-    print(f"steelfire check {largest.name}: warm cache median {med['plain']:.2f} s (best {min(warm['plain']):.2f}) "
-          f"as installed for use (no scipy); cold cache median {statistics.median(cold):.2f} s")
-    if with_scipy:
-        print(f"  with scipy importable (the test environment): warm median {med['scipy']:.2f} s "
-              f"(best {min(warm['scipy']):.2f}): numba imports scipy.linalg on its first kernel load")
-    return med["plain"], statistics.median(cold)
+        t0 = time.perf_counter()
+        subprocess.run(cmd, env=env, capture_output=True, cwd=ROOT)
+        warm.append(time.perf_counter() - t0)
+    print(f"steelfire check {largest.name}: warm cache median {statistics.median(warm):.2f} s "
+          f"(best {min(warm):.2f}); cold cache (kernels compiled) median {statistics.median(cold):.2f} s")
+    return statistics.median(warm), statistics.median(cold)
 
 
 def main(argv=None):
@@ -408,10 +262,10 @@ def main(argv=None):
     ap.add_argument("--quick", action="store_true")
     args = ap.parse_args(argv)
     repeats = 3 if args.quick else 7
-    print(f"machine: {os.cpu_count()} logical CPUs, ~{cpu_ghz():.2f} GHz; numba {numba.__version__}, "
-          f"threads {numba.config.NUMBA_NUM_THREADS}")
+    print(f"machine: {os.cpu_count()} logical CPUs; numba {numba.__version__}, threads {numba.config.NUMBA_NUM_THREADS}")
     kernel_figures(repeats)
     sizing_figures(repeats)
+    resistance_figures(repeats)
     overhead_figures()
     check_wall_times(repeats)
 

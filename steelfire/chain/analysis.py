@@ -202,11 +202,9 @@ def resistance_curves(case, resistance, margin_C):
     if not idx:
         return
     idx = sorted(idx, key=lambda i: margin_C[i])[:CURVE_MEMBERS]
-    members = [case.members[i] for i in idx]
-    design = res.MemberDesign.from_members([{**m.design, "section": m.geometry} for m in members])
     grid = np.arange(20.0, 1200.0 + 1e-9, 20.0)
-    util = np.array([res.resistances_at(design, t, case.code,
-                                        allow_out_of_scope=case.analysis.allow_out_of_scope).utilisation
-                     for t in grid])
+    rows = [{**case.members[i].design, "section": case.members[i].geometry} for i in idx for _ in grid]
+    util = res.resistances_at(res.MemberDesign.from_members(rows), np.tile(grid, len(idx)), case.code,
+                              allow_out_of_scope=case.analysis.allow_out_of_scope).utilisation.reshape(len(idx), -1)
     for j, i in enumerate(idx):
-        resistance[i]["utilisation_curve"] = {"temperature_C": grid.tolist(), "utilisation": util[:, j].tolist()}
+        resistance[i]["utilisation_curve"] = {"temperature_C": grid.tolist(), "utilisation": util[j].tolist()}

@@ -404,6 +404,10 @@ def _bare_chunks(time_s, gas_C, rad4, fire, ksh_amv, alpha_c, eps_res, rho_a, th
     return peak, peak_t, cross, at_q, last, hist
 
 
+#: Rows per fire from which :func:`run` calls the kernels once per fire (the gas a column) rather than once
+#: for all fires (the gas gathered per member and step, about twice the cost per member-step).
+PER_FIRE_CALL_ROWS = 256
+
 #: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
 COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
                   "(about {s} s) ...")
@@ -458,10 +462,19 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     groups = (np.flatnonzero(bare), np.flatnonzero(~bare & (lam_n == 1)), np.flatnonzero(~bare & (lam_n > 1)))
     n_threads = int(nb.get_num_threads())
     rho_a = float(steel_density_kg_m3)
+    parts = []
     for gi, idx in enumerate(groups):
         if len(idx) == 0:
             continue
         idx = idx[np.argsort(rows.fire[idx], kind="stable")]  # rows of one fire in the same chunks
+        f = rows.fire[idx]
+        starts = np.flatnonzero(np.concatenate([[True], f[1:] != f[:-1]]))
+        if 1 < len(starts) and len(idx) >= PER_FIRE_CALL_ROWS * len(starts):
+            # many rows per fire: one call per fire reads its gas as a column (no gather per member)
+            parts += [(gi, part) for part in np.split(idx, starts[1:])]
+        else:
+            parts.append((gi, idx))
+    for gi, idx in parts:
         r = rows.take(idx)
         fire = r.fire.astype(np.int64)
         one = fire[0] == fire[-1]   # sorted: one fire for every row of the group
