@@ -189,10 +189,12 @@ class MemberTable:
         }
 
     def ok(self) -> np.ndarray:
-        """Per member: passes the design fire and meets its required period."""
+        """Per member: passes the design fire and meets its required period, by a margin larger than the
+        numerical error (a verdict within it, ``marginal``, is not one to sign)."""
         r = self.rounded()
         short = np.array([q is False for q in r["meets_required_period"]], dtype=bool)
-        return r["passes"] & ~short
+        marginal = np.asarray(self.extras.get("marginal", np.zeros(self.n, dtype=bool)), dtype=bool)
+        return r["passes"] & ~short & ~marginal
 
 
 class MemberResult:
@@ -250,7 +252,9 @@ class MemberResult:
 
     @property
     def ok(self) -> bool:
-        return self.passes and self.meets_required_period is not False
+        marginal = self._t.extras.get("marginal")
+        return (self.passes and self.meets_required_period is not False
+                and not (marginal is not None and marginal[self._i]))
 
     def __repr__(self):
         return f"MemberResult({self.name!r}, peak {self.peak_steel_temperature_C:.1f} C)"

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from steelfire.chain import fires, thermal, verdicts
+from steelfire.chain import fires, protected, steps, thermal, verdicts
 from steelfire.errors import InputError
 from steelfire.results import AnalysisResult, FireResult, MemberResults, MemberTable
 
@@ -90,10 +90,18 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
                                       nominal_fire=fire.nominal, query_idx=query)
     peak = design.peak_C.copy()
     peak_time_s = design.peak_time_s.copy()
+    last = design.last_increment_C.copy()
+    history = design.history_C.copy() if histories else None
     if query is not None:   # the steel temperature at the required period (heating only: the largest so far)
         at = np.searchsorted(query, np.searchsorted(t, required_s[judged_at] - 1e-6))
         peak[judged_at] = design.at_query_C[judged_at, at]
         peak_time_s[judged_at] = t[query[at]]
+    lumped_peak = peak.copy()
+    # protected members by the conduction model beside eq (4.27); it governs where eq (4.27) breaks the
+    # second law or where the case asks for it (chain.protected)
+    two, notes = protected.run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last, history,
+                                    judged_at, query)
+    warnings += notes
     # the standard fire (EN 1991-1-2 3.2.1) for times to critical and for the equal-steel-temperature
     # equivalence: when the same member reaches its design-fire peak (each member twice, one threshold each)
     n = len(members)
@@ -116,8 +124,10 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
         prot = np.flatnonzero(~cols.bare)
         thick, _ = exposures.run(code, cols, select=prot, alpha_c=fire.alpha_c, nominal_fire=fire.nominal,
                                  thickness_mm=cols.thickness_mm[prot] * (1.0 + THICKNESS_PROBE))
-        rising = [members[i].name for i in prot[thick.peak_C > peak[prot] + 0.01]]
-    warnings += verdicts.member_warnings(case, fire, cols, peak, design.last_increment_C, rising)
+        rising = [members[i].name for i in prot[thick.peak_C > lumped_peak[prot] + 0.01]]
+    warnings += verdicts.member_warnings(case, fire, cols, peak, last, rising)
+    sens = steps.sensitivity(case, fire, exposures, cols, crit, lumped_peak, peak, cross, two, judged_at, required_s)
+    warnings += sens.warnings
 
     nominal = fire.nominal
     details = member_details(case, cols, peak, nominal)
@@ -136,7 +146,10 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
          "section": [m.section for m in members], "exposure": [m.exposure for m in members],
          "encasement": [m.encasement for m in members], "resistance": resistance, "details": details,
          "governing_exposure": None if exposures.labels is None else [exposures.labels[k] for k in governing]},
-        histories=design.history_C if histories else None, equivalence=equiv)
+        histories=history, equivalence=equiv,
+        extras={"conduction_peak_C": two.conduction_peak_C, "model_difference_C": two.model_difference_C,
+                "lumped_valid": two.lumped_valid, "verdict_model": two.verdict_model,
+                "step_sensitivity_C": sens.peak_C, "step_sensitivity_min": sens.time_min, "marginal": sens.marginal})
     fr = FireResult(curve=case.fire.curve, duration_min=case.fire.duration_min, convection_coefficient=fire.alpha_c,
                     time_s=t, gas_temperature_C=g, peak_gas_temperature_C=float(g[i_peak]),
                     time_of_peak_gas_min=float(t[i_peak] / 60.0), values=dict(fire.values),

@@ -149,6 +149,23 @@ class Exposures:
                          thresholds_C=np.broadcast_to(thresholds, (len(select),))[which] if np.ndim(thresholds)
                          else thresholds, **kw), which, counts
 
+    def run_conduction(self, code, cols, select, converged=False, keep_history=False, thickness_mm=None,
+                           thresholds_C=np.inf):
+        """:func:`conduction_run` of the members ``select`` in every column they see, reduced to the worst per member:
+        (peak, peak time, last increment, history or None, largest refinement change or NaN)."""
+        select = np.asarray(select, dtype=np.int64)
+        counts = np.array([len(self.member_columns[i]) for i in select], dtype=np.int64)
+        which = np.repeat(np.arange(len(select)), counts)
+        fire = np.concatenate([self.member_columns[i] for i in select]) if len(select) else np.zeros(0, np.int64)
+        d = None if thickness_mm is None else np.asarray(thickness_mm)[which]
+        thr = np.broadcast_to(thresholds_C, (len(select),))[which] if np.ndim(thresholds_C) else thresholds_C
+        r = conduction_run(code, self.time_s, self.gas_C, cols, select[which], fire, d, thr, converged, keep_history)
+        order = np.lexsort((-r.peak_C, which))
+        gov = order[np.searchsorted(which[order], np.arange(len(select)))]
+        change = np.fmax(r.cells_change_C, r.substeps_change_C)[gov]
+        return (r.peak_C[gov], r.peak_time_s[gov], r.crossing_time_s[gov], r.last_increment_C[gov],
+                r.history_C[:, gov] if keep_history else None, change)
+
     def run(self, code, cols: MemberColumns, select=None, keep_history=False, query_idx=None, **kw):
         """The members ``select`` (all if None) through the kernels in every column they see, reduced to one
         result per member: the row with the highest peak governs (its peak, time, last step, history)."""
@@ -165,3 +182,23 @@ class Exposures:
         out = heat.ThermalRun(r.peak_C[gov], r.peak_time_s[gov], r.crossing_time_s[gov], r.at_query_C[gov],
                               r.last_increment_C[gov], np.maximum.reduceat(r.excess_C, starts), hist)
         return out, rows.fire[gov]
+
+
+def conduction_run(code, time_s, gas_C, cols: MemberColumns, select, fire=0, thickness_mm=None, thresholds_C=np.inf,
+                   converged=False, keep_history=False):
+    """The 1-D conduction model (:mod:`steelfire.models.conduction`) for the protected members ``select``, each
+    in its fire column ``fire`` of ``gas_C`` (T x F); ``converged``: refined to 0.5 C per member, else at the
+    model's least resolution (8 cells)."""
+    from steelfire.models import conduction
+
+    select = np.asarray(select, dtype=np.int64)
+    rows = cols.rows(alpha_c=0.0, select=select, fire=fire, thickness_mm=thickness_mm, thresholds_C=thresholds_C)
+    moist = cols.materials[2][cols.material_row[select]]
+    gas = np.ascontiguousarray(np.asarray(gas_C, dtype=float).reshape(len(time_s), -1))
+    inputs = conduction.ConductionInputs(
+        np.asarray(time_s, dtype=float), gas, rows.fire, rows.section_factor_per_m, rows.thickness_m, rows.density,
+        rows.specific_heat, np.ascontiguousarray(rows.conductivity_C), np.ascontiguousarray(rows.conductivity),
+        rows.conductivity_n, np.ascontiguousarray(moist, dtype=float), rows.threshold_C, float(code["steel_density_kg_m3"]))
+    if converged:
+        return conduction.run_converged(inputs, keep_history=keep_history)
+    return conduction.run(inputs, keep_history=keep_history)

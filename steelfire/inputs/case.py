@@ -50,7 +50,8 @@ TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "ma
 RECORD_KEYS = ("project", "job_number", "revision", "prepared_by", "checked_by", "date", "notes")
 FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient", "heat_release_file") + tuple(
     c for c in fire_models.MODELS if fire_models.options(c))
-ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope")
+ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope", "protection_model")
+PROTECTION_MODELS = ("lumped", "conduction")
 COMPARTMENT_KEYS = ("floor_area_m2", "height_m", "boundary_area_m2", "thermal_inertia", "roof_opening_area_m2",
                     "opening", "surface")
 OPENING_KEYS = ("width_m", "height_m", "count")
@@ -79,6 +80,7 @@ class AnalysisSettings:
     time_step_s: float = 5.0
     standard_horizon_min: float = 240.0
     allow_out_of_scope: bool = False
+    protection_model: str = "lumped"   # eq (4.27), or 1-D conduction through the protection
 
 
 @dataclass(frozen=True)
@@ -483,8 +485,10 @@ def _read_analysis(data) -> AnalysisSettings:
     step = t.number("time_step_s", "s", required=False, default=5.0, lo=0.0, lo_open=True, hi=300.0)
     horizon = t.number("standard_horizon_min", "min", required=False, default=240.0, lo=1.0, hi=MAX_DURATION_MIN)
     allow = t.boolean("allow_out_of_scope", default=False)
+    model = t.string("protection_model", required=False, default="lumped", choices=PROTECTION_MODELS)
     t.done()
-    return AnalysisSettings(time_step_s=step, standard_horizon_min=horizon, allow_out_of_scope=allow)
+    return AnalysisSettings(time_step_s=step, standard_horizon_min=horizon, allow_out_of_scope=allow,
+                            protection_model=model)
 
 
 def _read_compartment(data) -> Compartment:

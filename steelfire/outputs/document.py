@@ -122,6 +122,15 @@ def member_entries(table) -> list:
             d["equivalence"] = None
         for k in ("section", "exposure", "encasement"):
             d[k] = c[k][i] if k in c else None
+        x = table.extras
+        if "conduction_peak_C" in x:
+            d["conduction_peak_C"] = rounded(x["conduction_peak_C"][i])
+            d["model_difference_C"] = rounded(x["model_difference_C"][i])
+            d["lumped_valid"] = x["lumped_valid"][i]
+            d["verdict_model"] = x["verdict_model"][i]
+            d["step_sensitivity_C"] = rounded(x["step_sensitivity_C"][i])
+            d["step_sensitivity_min"] = rounded(x["step_sensitivity_min"][i])
+            d["marginal"] = bool(x["marginal"][i])
         if c.get("governing_exposure") is not None:
             d["governing_exposure"] = c["governing_exposure"][i]
         if "resistance" in c:
