@@ -23,6 +23,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from steelfire.chain import thermal
+from steelfire.chain.protected import SECOND_LAW_TOLERANCE_C
 
 #: Bisection stops when the bracket is this narrow [m] (0.1 mm).
 TOLERANCE_M = 1e-4
@@ -60,8 +61,10 @@ class Problem:
     :class:`~steelfire.chain.thermal.MemberColumns`), their critical temperatures and required periods,
     the two fires and the code values."""
 
-    def __init__(self, cols, members, critical_C, required_s, standard: Fire, design: Fire | None, code):
+    def __init__(self, cols, members, critical_C, required_s, standard: Fire, design: Fire | None, code,
+                 protection_model="lumped"):
         self.cols = cols
+        self.conduction_only = protection_model == "conduction"
         self.members = np.asarray(members, dtype=np.int64)
         self.critical_C = np.asarray(critical_C, dtype=float)
         self.required_s = np.asarray(required_s, dtype=float)  # NaN: no standard period asked
@@ -77,19 +80,28 @@ class Problem:
         return len(self.members)
 
     def _run(self, fire: Fire, idx, d_m, threshold):
+        """(peak, crossing time) of the members ``idx`` at thicknesses ``d_m`` in ``fire``: eq (4.27), or the
+        conduction model where the case asks for it or where eq (4.27) puts the steel above the hottest gas so
+        far (chain.protected)."""
         self.kernel_calls += 1
+        idx = np.asarray(idx)
         d_mm = np.asarray(d_m, dtype=float) * 1e3
-        if fire.exposures is not None:
-            return fire.exposures.run(self.code, self.cols, select=self.members[idx], alpha_c=fire.alpha_c,
-                                      nominal_fire=fire.nominal, thickness_mm=d_mm, thresholds_C=threshold)[0]
-        rows = self.cols.rows(alpha_c=fire.alpha_c, nominal_fire=fire.nominal, select=self.members[idx],
-                              thickness_mm=d_mm, thresholds_C=threshold)
-        return thermal.run(self.code, fire.time_s, fire.gas_C, rows)
+        ex = fire.exposures if fire.exposures is not None else thermal.Exposures.uniform(fire.time_s, fire.gas_C,
+                                                                                         len(self.cols))
+        select = self.members[idx]
+        r, _ = ex.run(self.code, self.cols, select=select, alpha_c=fire.alpha_c, nominal_fire=fire.nominal,
+                      thickness_mm=d_mm, thresholds_C=threshold)
+        peak, cross = r.peak_C.copy(), r.crossing_time_s.copy()
+        use = np.ones(len(idx), dtype=bool) if self.conduction_only else r.excess_C > SECOND_LAW_TOLERANCE_C
+        if use.any():
+            thr = np.broadcast_to(threshold, (len(idx),))[use]
+            p, _, c, *_ = ex.run_conduction(self.code, self.cols, select[use], thickness_mm=d_mm[use], thresholds_C=thr)
+            peak[use], cross[use] = p, c
+        return peak, cross
 
     def standard_passes(self, idx, d_m):
         """Reaches the critical temperature no earlier than required (standard fire)."""
-        r = self._run(self.standard, idx, d_m, self.critical_C[idx])
-        peak, cross = r.peak_C, r.crossing_time_s
+        peak, cross = self._run(self.standard, idx, d_m, self.critical_C[idx])
         return np.isfinite(peak) & (np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9))
 
     def burnout_passes(self, idx, d_m):
@@ -99,7 +111,7 @@ class Problem:
         ok = np.ones(len(idx), dtype=bool)
         use = self.burnout_applies[idx]
         if use.any():
-            peak = self._run(self.design, idx[use], np.asarray(d_m, dtype=float)[use], np.full(int(use.sum()), np.inf)).peak_C
+            peak = self._run(self.design, idx[use], np.asarray(d_m, dtype=float)[use], np.full(int(use.sum()), np.inf))[0]
             ok[use] = np.isfinite(peak) & (peak <= self.critical_C[idx[use]])
         return ok
 
@@ -283,7 +295,7 @@ def size_members(case):
         mats = [case.materials[m.protection] for m in sub]
         crit = verdicts.critical_temperatures(sub, code, case.analysis.allow_out_of_scope)[0]
         req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
-        p = Problem(cols, prot, crit, req, standard, design, code)
+        p = Problem(cols, prot, crit, req, standard, design, code, case.analysis.protection_model)
         supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]
         # trial thicknesses start where the explicit eq (4.27) is stable at this time step
         stable = stability.stable_min_thickness_m(
@@ -348,6 +360,21 @@ def size(case, histories: bool = True):
         else:
             members.append(m)
     result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
+    # a chosen thickness whose verdict is within the numerical error: the next supplied thickness, up to 3 times
+    for _ in range(3):
+        marginal = [i for i, (m, s) in enumerate(zip(case.members, sized)) if m.protected and s["chosen_mm"] is not None
+                    and result.table.extras["marginal"][i]]
+        if not marginal:
+            break
+        for i in marginal:
+            supply = case.materials[case.members[i].protection].supplied_thicknesses_mm()
+            up = supply[supply > sized[i]["chosen_mm"] + 1e-9]
+            if len(up):
+                sized[i]["chosen_mm"] = float(up[0])
+                sized[i]["note"] = (sized[i]["note"] + " " if sized[i]["note"] else "") + \
+                    "raised to the next supplied thickness: the verdict was within the numerical error"
+                members[i] = dataclasses.replace(members[i], thickness_mm=float(up[0]))
+        result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
     specified = None
     if all(m.thickness_mm is not None for m in case.members if m.protected):
         specified = analyse(case, histories=False).table.ok()   # the design as specified, for comparison

@@ -48,7 +48,7 @@ INT64_MIN, INT64_MAX = -(2 ** 63), 2 ** 63 - 1
 TOP_KEYS = ("title", "code", "fire", "analysis", "compartment", "fire_load", "materials", "member", "members_file",
             "record", "variability")
 RECORD_KEYS = ("project", "job_number", "revision", "prepared_by", "checked_by", "date", "notes")
-FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient", "heat_release_file") + tuple(
+FIRE_KEYS = ("curve", "duration_min", "file", "convection_coefficient", "heat_release_file", "smoothing_s") + tuple(
     c for c in fire_models.MODELS if fire_models.options(c))
 ANALYSIS_KEYS = ("time_step_s", "standard_horizon_min", "allow_out_of_scope", "protection_model")
 PROTECTION_MODELS = ("lumped", "conduction")
@@ -439,6 +439,9 @@ def _read_fire(t: TableReader | None, base_dir: Path, allow_outside=False) -> Fi
                              f"must not exceed the last time of {table.source} ({table.time_s[-1] / 60:g} min)")
     elif t.has("file"):
         raise InputError("fire.file", t.raw("file"), 'is only used with curve = "table"')
+    smoothing = t.number("smoothing_s", "s", required=False, lo=0.0, hi=3600.0)
+    if smoothing is not None and curve != "table":
+        raise InputError("fire.smoothing_s", smoothing, 'is only used with curve = "table"')
     hr_file = hr = None
     if t.has("heat_release_file"):
         if curve != "localised":
@@ -467,6 +470,8 @@ def _read_fire(t: TableReader | None, base_dir: Path, allow_outside=False) -> Fi
                 options[o.key] = [v] if (o.many and v is not None) else v
         sub.done()
     t.done()
+    if smoothing is not None:
+        options["smoothing_s"] = smoothing
     return FireSpec(curve=curve, duration_min=duration, file=file, convection_coefficient=hc, table=table,
                     options=options, heat_release_file=hr_file, heat_release=hr)
 
