@@ -70,11 +70,13 @@ def _parser():
     return p
 
 
-def render_table(result, sizing=False, wide=False, out_dir=None) -> str:
-    """The terminal summary of a run (:func:`steelfire.outputs.terminal.render` of its document)."""
+def render_table(result, sizing=False, wide=False, out_dir=None, written=None) -> str:
+    """The terminal summary of a run (:func:`steelfire.outputs.terminal.render` of its document; the
+    document --out wrote, where there is one, so that the files it lists are this run's)."""
     from steelfire.outputs import document, terminal
 
-    return terminal.render(document.build(result), sizing=sizing, wide=wide, out_dir=out_dir)
+    doc = written if written is not None else document.build(result)
+    return terminal.render(doc, sizing=sizing, wide=wide, out_dir=out_dir).rstrip("\n")
 
 
 def _load(args):
@@ -104,7 +106,8 @@ def _print(result, args, sizing=False):
         sys.stdout.buffer.write(document.dumps(document.build(result)) + b"\n")
         sys.stdout.flush()
     else:
-        sys.stdout.write(render_table(result, sizing=sizing, wide=args.wide, out_dir=args.out) + "\n")
+        sys.stdout.write(render_table(result, sizing=sizing, wide=args.wide, out_dir=args.out,
+                                      written=getattr(args, "written", None)) + "\n")
 
 
 def _run_check(args) -> int:
@@ -264,7 +267,7 @@ def _write(result, args, case, command):
     from steelfire.outputs.files import write_outputs
 
     try:
-        write_outputs(result, args.out, args.case, command=command, case=case)
+        args.written = write_outputs(result, args.out, args.case, command=command, case=case).document
     except OSError as exc:
         raise InputError("--out", args.out, f"could not be written ({exc.strerror or exc})") from None
 

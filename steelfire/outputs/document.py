@@ -77,6 +77,29 @@ def _sig_tree(v):
     return v
 
 
+#: The clause of each design-fire model's curve and of its convective coefficient.
+CURVE_CLAUSES = {
+    "standard": ("EN 1991-1-2 3.2.1 eq (3.4), ISO 834", "EN 1991-1-2 3.2.1(3)"),
+    "external": ("EN 1991-1-2 3.2.2 eq (3.5)", "EN 1991-1-2 3.2.2(2)"),
+    "hydrocarbon": ("EN 1991-1-2 3.2.3 eq (3.6)", "EN 1991-1-2 3.2.3(2)"),
+    "parametric": ("EN 1991-1-2 Annex A eq (A.1), (A.11)", "EN 1991-1-2 3.3.1.1(3)"),
+    "table": ("the case's table (time_min, temperature_C)", "EN 1991-1-2 3.3.1.1(3)"),
+    "localised": ("EN 1991-1-2 Annex C, heat release Annex E.4", "EN 1991-1-2 C.(10)"),
+    "travelling": ("Stern-Gottfried and Rein 2012; Rackauskaite et al. 2015", "EN 1991-1-2 3.3.1.1(3)"),
+}
+
+
+def fire_rows(fire) -> list:
+    """The design fire's report rows: the curve and alpha_c with their clauses, then the model's own values
+    (label, symbol, key in the ``fire`` object, unit, clause)."""
+    curve_clause, alpha_clause = CURVE_CLAUSES.get(fire.curve, ("", ""))
+    rows = [{"key": "curve", "label": "design fire", "symbol": "", "unit": "", "clause": curve_clause},
+            {"key": "convection_coefficient", "label": "convective heat transfer coefficient", "symbol": "alpha_c",
+             "unit": "W/(m2 K)", "clause": alpha_clause}]
+    return rows + [{"key": q.key, "label": q.label, "symbol": q.symbol, "unit": q.unit, "clause": q.clause}
+                   for q in fire.quantities]
+
+
 def _sizing_entry(s):
     return {"standard_period_mm": rounded(s["standard_period_mm"]), "burnout_mm": rounded(s["burnout_mm"]),
             "governing": s["governing"], "chosen_mm": rounded(s["chosen_mm"]), "achievable": bool(s["achievable"]),
@@ -150,6 +173,7 @@ def build(result) -> dict:
     return {
         "title": result.title,
         "fire": fire_entry(result.fire),
+        "fire_rows": fire_rows(result.fire),
         "members": member_entries(result.table),
         "code_values": dict(result.code_values),
         "warnings": list(result.warnings),
@@ -244,8 +268,6 @@ def full(result, case=None, case_path=None, command: str = "check", now=None) ->
     doc["inputs"] = case_inputs(case) if case is not None else None
     doc["code_value_sources"] = {k: {"unit": DEFINITIONS[k].unit, "clause": DEFINITIONS[k].clause}
                                  for k in doc["code_values"] if k in DEFINITIONS}
-    doc["fire_rows"] = [{"key": q.key, "label": q.label, "symbol": q.symbol, "unit": q.unit, "clause": q.clause}
-                        for q in result.fire.quantities]
     ms = doc["members"]
     sized = [d["sizing"] for d in ms if isinstance(d.get("sizing"), dict)]
     doc["summary"] = {
