@@ -237,8 +237,9 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
     doc = document.full(result, case=case, case_path=case_path, command=command or result.command, now=now)
     hist_text, hist_names = tables.histories_csv(result)
     doc["report"] = plots.plan(doc, hist_names)
-    doc["report"]["files"] = [RESULTS_JSON, MEMBERS_CSV, HISTORIES_CSV] + \
-        [f"fig_{n}.{x}" for n in doc["report"]["figures"] for x in ("png", "svg")] + [REPORT_HTML]
+    xlsx = tables.members_xlsx(doc)
+    doc["report"]["files"] = [RESULTS_JSON, MEMBERS_CSV] + ([MEMBERS_XLSX] if xlsx is not None else []) + \
+        [HISTORIES_CSV] + [f"fig_{n}.{x}" for n in doc["report"]["figures"] for x in ("png", "svg")] + [REPORT_HTML]
     timings["document_s"] = time.perf_counter() - t0
 
     t0 = time.perf_counter()
@@ -252,9 +253,8 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
     payloads = {RESULTS_JSON: document.dumps(doc) + b"\n",
                 MEMBERS_CSV: tables.members_csv(doc).encode("utf-8"),
                 HISTORIES_CSV: hist_text.encode("utf-8")}
-    xlsx = tables.members_xlsx(doc)
     if xlsx is not None:
-        payloads[MEMBERS_XLSX] = xlsx
+        payloads[MEMBERS_XLSX] = tables.members_xlsx(doc)
     for fig in figures:
         payloads[f"fig_{fig.name}.png"] = fig.png
         payloads[f"fig_{fig.name}.svg"] = fig.svg.encode("utf-8")

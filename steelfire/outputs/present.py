@@ -439,6 +439,9 @@ def shortfalls(doc) -> list:
         if m.get("meets_required_period") is False:
             why.append(f"reaches critical after {std_time_text(doc, m.get('standard_fire_time_to_critical_min'))} "
                        f"min of standard fire, short of the required {fmt(m.get('required_minutes'), 'input')} min")
+        if m.get("marginal"):
+            why.append("verdict within the numerical error (margin below the error estimated at half the time "
+                       "step): not established; run with a smaller time step")
         r = sized.get(m["name"])
         if r is not None:
             if r.achievable is False:
@@ -461,7 +464,8 @@ def counts(doc) -> dict:
             "fail": sum(1 for m in ms if m.get("passes") is False),
             "with_period": sum(1 for m in ms if m.get("meets_required_period") is not None),
             "short": sum(1 for m in ms if m.get("meets_required_period") is False),
-            "ok": sum(1 for m in ms if m.get("passes") is True and m.get("meets_required_period") is not False)}
+            "ok": sum(1 for m in ms if m.get("passes") is True and m.get("meets_required_period") is not False
+                      and not m.get("marginal"))}
 
 
 def verdict_lines(doc, sizing: bool) -> list:
@@ -470,7 +474,9 @@ def verdict_lines(doc, sizing: bool) -> list:
     n = c["members"]
     rows = sizing_rows(doc) if sizing else []
     if not rows:
-        return [f"{c['ok']} of {n} members pass the design fire and meet their required period."]
+        return [f"{c['ok']} of {n} members pass the design fire and meet their required period"
+                + (" (a verdict within the numerical error is not counted)." if any(
+                    m.get("marginal") for m in doc.get("members") or []) else ".")]
     spec_ok = sum(1 for r in rows if r.specified_ok is True)
     spec_none = sum(1 for r in rows if r.specified_ok is None)
     prop_ok = sum(1 for r in rows if r.proposed_ok)
