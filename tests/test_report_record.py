@@ -295,7 +295,9 @@ def test_traceability_rendered_where_present(sized_doc):
 def test_no_traceability_section_without_the_keys(sized_doc):
     doc = copy.deepcopy(sized_doc)
     for m in doc["members"]:
-        for k in ("section", "exposure", "encasement", "details", "resistance"):
+        for k in ("section", "exposure", "encasement", "details", "resistance", "conduction_peak_C",
+                  "model_difference_C", "lumped_valid", "verdict_model", "step_sensitivity_C", "step_sensitivity_min",
+                  "marginal"):
             m.pop(k, None)
     page = report_html.render_report(doc)
     assert "Per member: intermediate values" not in page

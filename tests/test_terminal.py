@@ -190,7 +190,9 @@ def test_unconservative_only_where_it_changes_a_conclusion(docs, sized):
 def test_closing_list_names_the_members_that_fail_or_fall_short(docs):
     for stem, doc in docs.items():
         out = render(doc)
-        bad = [m["name"] for m in doc["members"] if m["passes"] is False or m["meets_required_period"] is False]
+        # a verdict within the numerical error (marginal) is listed too: it is not one to sign
+        bad = [m["name"] for m in doc["members"]
+               if m["passes"] is False or m["meets_required_period"] is False or m.get("marginal")]
         if not bad:
             assert "Members that fail or fall short" not in out, stem
             continue

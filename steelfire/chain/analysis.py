@@ -156,6 +156,7 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
                     quantities=tuple(fire.quantities), equivalence_factors=factors, nominal=fire.nominal,
                     cools=fire.cools)
     fr.series = fire.series(t) if fire.series is not None else {}
+    table.model_histories = two.histories
     fr.exposure_C = exposures.gas_C[:, governing] if (histories and exposures.labels is not None) else None
     return AnalysisResult(title=case.title, fire=fr, members=MemberResults(table), code_values=dict(code),
                           warnings=list(fire.out_of_scope) + warnings, out_of_scope=list(fire.out_of_scope),

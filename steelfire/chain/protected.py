@@ -38,6 +38,7 @@ class TwoModels:
     verdict_model: list
     refinement_change_C: np.ndarray
     governs: np.ndarray = field(default=None)
+    histories: dict = field(default_factory=dict)   # "lumped", "conduction": (T x N) where kept, NaN elsewhere
 
 
 def applies(case, fire) -> bool:
@@ -88,8 +89,13 @@ def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last,
     out.governs[prot] = governs
     g = prot[governs]
     peak[g], peak_time_s[g], last[g] = cp[governs], ct[governs], cl[governs]
-    if history is not None and len(g):
-        history[:, g] = ch[:, governs]
+    if history is not None:
+        out.histories["lumped"] = history.copy()
+        cond = np.full_like(history, np.nan)
+        cond[:, prot] = ch
+        out.histories["conduction"] = cond
+        if len(g):
+            history[:, g] = ch[:, governs]
 
     warnings = []
     names = [case.members[i].name for i in prot]

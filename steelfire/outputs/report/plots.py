@@ -16,7 +16,7 @@ import re
 from dataclasses import dataclass
 
 #: Figures the report may hold, in report order (file names ``fig_<name>.png`` / ``.svg``).
-FIGURE_NAMES = ("design_fire", "steel_temperatures", "time_equivalence", "thickness")
+FIGURE_NAMES = ("design_fire", "steel_temperatures", "time_equivalence", "thickness", "resistance")
 
 #: Schedules up to this many members are plotted whole; above it a selection is plotted.
 PLOT_ALL_MAX = 12
@@ -38,6 +38,7 @@ ANNEX_F = "#22507d"       # deep blue
 CIB_W14 = "#a9d2c9"       # pale sea green, hatched
 EQUAL_T = "#dd9c2c"       # amber
 SMALL_COMPARTMENT = "#7d9fc0"  # light steel blue, dotted
+SECOND_MODEL = "#5b8a3c"  # moss green, dashed: the other protected-steel model
 MARKER = INK
 
 FIG_WIDTH_IN = 7.0
@@ -119,6 +120,9 @@ def plan(doc, history_names) -> dict:
     s_idx, s_note = _sizing_selection(doc)
     if s_idx:
         figs.append("thickness")
+    r_idx = [i for i, m in enumerate(doc["members"]) if (m.get("resistance") or {}).get("utilisation_curve")]
+    if r_idx:
+        figs.append("resistance")
     return {"figures": figs,
             "plotted_members": [doc["members"][i]["name"] for i in idx],
             "plotted_member_indices": idx,
@@ -126,7 +130,8 @@ def plan(doc, history_names) -> dict:
             "histories_kept": len(have_hist),
             "history_plot_member_indices": hist_idx,
             "sizing_plot_member_indices": s_idx,
-            "sizing_selection": s_note}
+            "sizing_selection": s_note,
+            "resistance_plot_member_indices": r_idx}
 
 
 # ----------------------------------------------------------------------------------------------
@@ -280,7 +285,16 @@ def steel_temperatures_figure(doc, result, idx, note):
         ipk = int(np.argmax(h))
         ts, hs = _thin(t, h, [ipk])
         ax.plot(tg, gg, color=GAS_TINT, lw=1.0, label="gas (design fire)")
-        ax.plot(ts, hs, color=STEEL, lw=1.5, label=r"steel $\theta_\mathrm{a}$")
+        ax.plot(ts, hs, color=STEEL, lw=1.5, label=r"steel $\theta_\mathrm{a}$ (verdict)")
+        models = getattr(result.table, "model_histories", None) or {}
+        differ = d.get("lumped_valid") is False or abs(d.get("model_difference_C") or 0.0) > 10.0
+        if differ and "conduction" in models and "lumped" in models:
+            other = "lumped" if d.get("verdict_model") == "conduction" else "conduction"
+            ho = np.asarray(models[other][:, i], dtype=float)
+            if np.all(np.isfinite(ho)):
+                to, yo = _thin(t, ho, [int(np.argmax(ho))])
+                ax.plot(to, yo, color=SECOND_MODEL, lw=1.1, ls=(0, (5, 2)),
+                        label="steel, eq (4.27)" if other == "lumped" else "steel, conduction model")
         ax.axhline(d["critical_temperature_C"], color=CRITICAL, lw=1.2, ls=(0, (4, 2)),
                    label=r"critical $\theta_\mathrm{a,cr}$")
         ax.axvline(d["time_of_peak_steel_min"], color=INK, lw=0.7, ls=(0, (1, 2)))
@@ -461,6 +475,32 @@ def thickness_figure(doc, idx, note):
 # ----------------------------------------------------------------------------------------------
 
 
+def resistance_figure(doc, idx):
+    """Design effect over resistance (the utilisation of the governing check, EN 1993-1-2 4.2.3) against a
+    uniform steel temperature, for the members with the smallest margins: it reaches 1 at the critical
+    temperature; the member's peak steel temperature marked."""
+    fig = _figure(3.2)
+    ax = fig.subplots()
+    colours = [STEEL, DESIGN_FIRE, EQUAL_T, STANDARD, SMALL_COMPARTMENT, SECOND_MODEL]
+    for k, i in enumerate(idx):
+        m = doc["members"][i]
+        c = m["resistance"]["utilisation_curve"]
+        col = colours[k % len(colours)]
+        ax.plot(c["temperature_C"], c["utilisation"], color=col, lw=1.4, label=_mpl_text(_short(m["name"], 30)))
+        ax.plot([m["critical_temperature_C"]], [1.0], marker="o", ms=4, color=col, ls="none")
+        ax.axvline(m["peak_steel_temperature_C"], color=col, lw=0.8, ls=(0, (1, 2)))
+    ax.axhline(1.0, color=INK, lw=0.8)
+    ax.set_xlim(20, 1200)
+    ax.set_ylim(0, 1.6)
+    ax.set_xlabel(r"uniform steel temperature $\theta_\mathrm{a}$ [°C]")
+    ax.set_ylabel(r"$E_\mathrm{fi,d}$ / $R_\mathrm{fi,d,\theta}$ [-]")
+    ax.legend(loc="upper left", fontsize=7)
+    cap = ("Design effect over resistance in fire (the governing check of EN 1993-1-2 4.2.3) against a uniform "
+           "steel temperature, for the members checked by resistance with the smallest margins: it reaches 1 at the "
+           "critical temperature (dot); the dotted line is the member's peak steel temperature in the design fire.")
+    return fig, cap
+
+
 def render_figures(doc, result) -> list:
     """Every figure the plan in ``doc["report"]`` names, as :class:`RenderedFigure` (PNG + SVG)."""
     import matplotlib
@@ -478,6 +518,8 @@ def render_figures(doc, result) -> list:
                 fig, cap = time_equivalence_figure(doc, rep["plotted_member_indices"], rep["selection"])
             elif name == "thickness":
                 fig, cap = thickness_figure(doc, rep["sizing_plot_member_indices"], rep["sizing_selection"])
+            elif name == "resistance":
+                fig, cap = resistance_figure(doc, rep["resistance_plot_member_indices"])
             else:  # pragma: no cover - plan() names only the above
                 raise ValueError(name)
             out.append(_save(fig, name, cap))
