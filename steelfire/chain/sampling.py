@@ -627,8 +627,19 @@ def grid_check(setup: Setup, fires: int = GRID_CHECK_FIRES) -> dict:
     """Peaks of the run's first ``fires`` fires on the common grid against the single-fire check (the
     fire's own grid with t_max and burnout on it, :func:`steelfire.chain.fires.time_grid`), all members.
     Returns the number of fires compared and the largest difference [C] (None if none compared)."""
+    import numba
+
     n = min(fires, setup.spec.fires)
     ev = evaluate(setup, 0, n, equivalence=False)
+    before = numba.get_num_threads()
+    numba.set_num_threads(1)  # one small kernel call per fire: threads would cost more than they share
+    try:
+        return _grid_check(setup, ev)
+    finally:
+        numba.set_num_threads(before)
+
+
+def _grid_check(setup: Setup, ev: Evaluated) -> dict:
     pf = ev.fires.fires
     worst = None
     dur = float(setup.time_s[-1])
@@ -668,7 +679,8 @@ def size_members(case, spec, ex, ranges, show) -> list:
     all fires with the members still open together. None for bare members."""
     target = spec.target_probability
     if target is None:
-        raise InputError("variability.target_probability", None, "is missing; --size needs it (a probability in (0, 1))")
+        raise InputError("variability.target_probability", None,
+                         "is missing; --size needs it (a probability in (0, 1))")
     members = case.members
     n_f = spec.fires
     prot = np.array([i for i, m in enumerate(members) if m.protected], dtype=np.int64)
@@ -924,6 +936,11 @@ def _run_warnings(run: SampleRun, setup: Setup) -> list:
     if scope["undefined_fires"]:
         w.append(f"{scope['undefined_fires']} fires have k <= 0 in eq (A.8) (no Annex A heating phase): no gas "
                  "temperature; counted as exceeding for every member.")
+    near = run._near_boundary()
+    if near:
+        w.append(f"{near} of {n} fires lie within 10 % of Annex A's ventilation/fuel boundary ((0.2e-3 q_t,d / O) / "
+                 "t_lim near 1), where the peak gas temperature jumps (Gamma_lim = Gamma/4 there), as published: "
+                 "the distributions carry that jump.")
     for f, v, a in run.compartment_out_of_scope:
         w.append(f"OUT OF SCOPE of EN 1991-1-2 Annex A: {f} = {v!r}; {a} (every fire; allow_out_of_scope).")
     nb = int(np.count_nonzero(run.counts.fire_columns["burnout_time_min"] > run.grid["duration_min"] + 1e-9))

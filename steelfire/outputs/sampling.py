@@ -42,6 +42,8 @@ def section(run) -> dict:
 # ---- CSV ---------------------------------------------------------------------------------------
 
 def _cell(v):
+    """A CSV cell: numbers as JSON writes them (a trailing .0 dropped), empty for None and NaN, text made
+    safe for spreadsheets (:func:`steelfire.outputs.tables.safe_text`)."""
     if v is None:
         return ""
     if isinstance(v, bool):
@@ -52,7 +54,11 @@ def _cell(v):
             return ""
         s = repr(v)
         return s[:-2] if s.endswith(".0") else s
-    return str(v)
+    if isinstance(v, (int, np.integer)):
+        return str(int(v))
+    from steelfire.outputs.tables import safe_text
+
+    return safe_text(str(v))
 
 
 def samples_csv(run) -> str:
@@ -243,16 +249,27 @@ def payloads(run, doc_section: dict | None = None, with_figures: bool = True) ->
     return out
 
 
-def write(run, out_dir, with_figures: bool = True) -> list:
-    """Write :func:`payloads` into ``out_dir`` (checked first; temporary names renamed into place)."""
+def targets() -> list:
+    """Every file name :func:`write` may write."""
+    return list(FILES) + [f"fig_{n}.{x}" for n in FIGURE_NAMES for x in ("png", "svg")]
+
+
+def write(run, out_dir, with_figures: bool = True, inputs=()) -> list:
+    """Write :func:`payloads` into ``out_dir`` by the rules of :mod:`steelfire.outputs.files`: the folder
+    checked first (only regular files replaced, never one of ``inputs``), everything rendered, written to
+    temporary names and renamed into place."""
     from pathlib import Path
 
     from steelfire.outputs import files
 
     out = Path(out_dir)
-    names = list(FILES) + [f"fig_{n}.{x}" for n in FIGURE_NAMES for x in ("png", "svg")]
+    names = targets()
     files._check_out_dir(out, names)
-    return files._commit(out, payloads(run, with_figures=with_figures))
+    files._guard_inputs(out, names, inputs)
+    data = payloads(run, with_figures=with_figures)
+    if out.is_dir():
+        files.remove_stale_parts(out, names)
+    return files._commit(out, data)
 
 
 def report_section_html(doc_section: dict, figure_svgs: dict | None = None) -> str:
