@@ -69,7 +69,7 @@ import numba as nb
 import numpy as np
 
 from steelfire.errors import InputError
-from steelfire.models.heat import (BATCH_MATH, KELVIN, SPECIFIC_HEAT_TERMS, STEFAN_BOLTZMANN,
+from steelfire.models.heat import (BATCH_MATH, KELVIN, SPECIFIC_HEAT_TERMS, STEFAN_BOLTZMANN, _announce_compile,
                                    _finish, _take_ticket, _track, heat_capacity_fraction)
 from steelfire.models.steel import STEEL_DENSITY_KG_M3
 
@@ -715,12 +715,13 @@ def run(inputs: ConductionInputs, cells=MIN_CELLS, substeps=1, surface: SurfaceB
         idx = np.nonzero(np.all(key == u, axis=1))[0]
         nc, ns, kd, tb = (int(v) for v in u)
         k = int(inp.conductivity_n[idx].max()) if tb else 1
-        out = _conduction_chunks(
-            inp.time_s, inp.gas_C, inp.fire_index[idx], inp.section_factor_per_m[idx], inp.thickness_m[idx],
-            inp.density[idx], inp.specific_heat[idx], np.ascontiguousarray(inp.conductivity_C[idx, :k]),
-            np.ascontiguousarray(inp.conductivity[idx, :k]), inp.conductivity_n[idx], latent_m3[idx],
-            inp.threshold_C[idx], inp.steel_density_kg_m3, nc, ns, kd == 0, kd == 2, surf is not None,
-            alpha_c, eps, keep_history, n_threads, CHUNK_FAST if kd == 0 else CHUNK_GENERAL, SPECIFIC_HEAT_TERMS)
+        args = (inp.time_s, inp.gas_C, inp.fire_index[idx], inp.section_factor_per_m[idx], inp.thickness_m[idx],
+                inp.density[idx], inp.specific_heat[idx], np.ascontiguousarray(inp.conductivity_C[idx, :k]),
+                np.ascontiguousarray(inp.conductivity[idx, :k]), inp.conductivity_n[idx], latent_m3[idx],
+                inp.threshold_C[idx], inp.steel_density_kg_m3, nc, ns, kd == 0, kd == 2, surf is not None,
+                alpha_c, eps, keep_history, n_threads, CHUNK_FAST if kd == 0 else CHUNK_GENERAL, SPECIFIC_HEAT_TERMS)
+        _announce_compile(_conduction_chunks, args, 60)
+        out = _conduction_chunks(*args)
         peak[idx], peak_t[idx], cross[idx], last[idx] = out[0], out[1], out[2], out[3]
         if keep_history:
             hist[:, idx] = out[4]

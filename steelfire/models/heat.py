@@ -410,7 +410,7 @@ PER_FIRE_CALL_ROWS = 256
 
 #: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
 COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
-                  "(about {s} s) ...")
+                  "(about {s} s; the conduction model's take up to a minute more) ...")
 _ANNOUNCED = set()
 
 
