@@ -11,9 +11,9 @@ Python API::
 Physics functions are importable on their own (``from steelfire.fire import parametric``).
 """
 
-__version__ = "0.1.0"
+from steelfire._version import __version__  # noqa: E402
 
-__all__ = ["__version__", "load_case", "analyse", "size", "write_outputs", "InputError"]
+__all__ = ["__version__", "load_case", "analyse", "size", "write_outputs", "document", "dataframe", "InputError"]
 
 from steelfire.errors import InputError  # noqa: E402
 
@@ -78,3 +78,20 @@ def write_outputs(result, folder, case=None, case_path=None):
     if case_path is None and case is not None:
         case_path = case.source
     return _write(result, folder, case_path, case=case)
+
+
+def document(result) -> dict:
+    """The result document of a run (what ``--json`` prints); see :func:`steelfire.outputs.document.build`."""
+    from steelfire.outputs.document import build
+
+    return build(result)
+
+
+def dataframe(result):
+    """The members' results as a pandas DataFrame (one row per member, the document's member keys, nested
+    entries flattened with dots); needs pandas (an optional dependency)."""
+    try:
+        import pandas as pd
+    except ImportError:
+        raise ImportError("steelfire.dataframe needs pandas: python -m pip install pandas") from None
+    return pd.json_normalize(document(result)["members"])

@@ -24,7 +24,7 @@ def _parser():
                 epilog="Caution: simplified code methods (EN 1991-1-2, EN 1993-1-2) within their validity "
                        "limits; results to be verified by a competent fire engineer; national annexes, local "
                        "codes and the approving authority prevail.")
-    from steelfire import __version__
+    from steelfire._version import __version__
 
     p.add_argument("--version", action="version", version=f"steelfire {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)

@@ -306,18 +306,3 @@ class AnalysisResult:
     @property
     def all_ok(self) -> bool:
         return bool(np.all(self.table.ok()))
-
-    def to_dict(self) -> dict:
-        """The result document (see :func:`steelfire.outputs.document.build`)."""
-        from steelfire.outputs.document import build
-
-        return build(self)
-
-    def to_dataframe(self):
-        """The members' results as a pandas DataFrame (one row per member, the document's member keys,
-        nested entries flattened with dots); needs pandas (an optional dependency)."""
-        try:
-            import pandas as pd
-        except ImportError:
-            raise ImportError("to_dataframe needs pandas: python -m pip install pandas") from None
-        return pd.json_normalize(self.to_dict()["members"])

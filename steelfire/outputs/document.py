@@ -168,7 +168,7 @@ def member_entries(table) -> list:
 
 def build(result) -> dict:
     """The document of the JSON contract for ``result`` (what ``--json`` prints)."""
-    from steelfire import __version__
+    from steelfire._version import __version__
 
     return {
         "title": result.title,
@@ -249,7 +249,7 @@ def full(result, case=None, case_path=None, command: str = "check", now=None) ->
     case file and fire table with their SHA-256), ``inputs`` (the case values the report lists),
     ``code_value_sources`` (unit and clause of each code value), ``fire_rows`` (the design fire's
     intermediate values as report rows) and ``summary`` (verdict counts)."""
-    from steelfire import __version__
+    from steelfire._version import __version__
     from steelfire.codevalues import DEFINITIONS
 
     doc = build(result)
