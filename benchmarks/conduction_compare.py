@@ -18,8 +18,9 @@ import numpy as np
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from steelfire.chain.analysis import time_grid  # noqa: E402
+from steelfire.chain.fires import time_grid  # noqa: E402
 from steelfire.models import conduction, heat  # noqa: E402
+from steelfire.models.protection import moisture_delay_s  # noqa: E402
 from steelfire.models.fire import nominal, parametric  # noqa: E402
 
 MATERIALS = {  # density, specific heat, conductivity
@@ -43,12 +44,15 @@ def both(t, g, members, threshold=550.0, moisture=None):
                                       np.full((n, 1), 20.0), np.array([[m[4]] for m in members]),
                                       np.ones(n, dtype=np.int64), moist, np.full(n, threshold))
     res = conduction.run_converged(inp, keep_history=True)
-    lumped = []
-    for i, m in enumerate(members):
-        delay = heat.moisture_delay_s(moist[i], m[2], m[1], m[4])
-        lumped.append(heat.protected_history(t, g, m[0], m[1], m[2], m[3], np.array([20.0]), np.array([m[4]]), 1,
-                                             delay, 7850.0))
-    return res, np.array(lumped).T
+    delay = moisture_delay_s(moist, np.array([m[2] for m in members]), np.array([m[1] for m in members]),
+                             np.array([m[4] for m in members]))
+    rows = heat.uniform_rows(n, bare=False, section_factor_per_m=[m[0] for m in members],
+                             thickness_m=[m[1] for m in members], density=[m[2] for m in members],
+                             specific_heat=[m[3] for m in members], conductivity=[m[4] for m in members],
+                             moisture_delay_s=delay)
+    lumped = heat.run(heat.Fires(t, g[:, None]), rows, emissivity_resultant=0.7, steel_density_kg_m3=7850.0,
+                      keep_history=True).history_C
+    return res, lumped
 
 
 def minutes(x):
@@ -156,7 +160,7 @@ def moisture_table():
             h = res.history_C[:, i]
             plateau = (t[np.argmax(h >= 150.0)] - t[np.argmax(h >= 60.0)]) / 60.0
             delay = (res.crossing_time_s[i] - res.crossing_time_s[0]) / 60.0
-            tv = heat.moisture_delay_s(p, rho, d, lam) / 60.0
+            tv = moisture_delay_s(p, rho, d, lam) / 60.0
             ratio = f"{delay / tv:.2f}" if tv > 0 else "-"
             print(f"| {label} | {p:.0f} | {plateau:.1f} | {delay:.1f} | {tv:.1f} | {ratio} | "
                   f"{res.cells[i]} x {res.substeps[i]} |")

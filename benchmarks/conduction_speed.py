@@ -1,4 +1,4 @@
-"""Speed of the conduction kernel (steelfire.models.conduction) beside eq (4.27) (steelfire.models.heat.batch).
+"""Speed of the conduction kernel (steelfire.models.conduction) beside eq (4.27) (steelfire.models.heat.run).
 
     python benchmarks/conduction_speed.py            # kernel figures (about a minute)
     python benchmarks/conduction_speed.py --check    # and a 20,000-member check with both models (a few minutes)
@@ -11,11 +11,11 @@ constant with 5 % moisture), eq (4.27) and the conduction kernel on the same mem
 calls interleaved, medians. Then the resolution ``run_converged`` chose.
 
 ``--check``: ``steelfire check --json`` of a 20,000-member schedule whose members are all protected
-(the case of ``benchmarks/check_profile.py`` with its bare members given the board), run in this
-process after a one-member run has paid the start-up: once as today (eq (4.27) alone) and once with
-every call of ``heat.batch`` followed by the conduction kernel on the same protected members and fire
-(what running both models costs the check; the chain's own bookkeeping for the second model not
-included), alternately, medians; and the ratio with the measured start-up of a one-member command added.
+(the case of ``benchmarks/check_profile.py`` with its bare members given the board), in this process after
+a one-member run has paid the start-up: as the chain runs it now (eq (4.27), the conduction model beside it
+in the cooling fire, the half-step convergence runs) against eq (4.27) alone (the chain's conduction and
+convergence steps switched off), alternately, medians; and the ratio with the start-up of a one-member
+command added.
 
 Figures are printed, never asserted.
 """
@@ -44,22 +44,28 @@ from steelfire.models.fire import nominal  # noqa: E402
 
 
 def protected_members(n, seed=7):
-    """The protected members of ``run.members`` as conduction inputs and eq (4.27) inputs, standard fire."""
+    """The protected rows of ``run.member_rows`` as conduction inputs and eq (4.27) rows, standard fire."""
     import run
 
     t = np.arange(0.0, 240 * 60.0 + 1.0, 5.0)
     g = nominal.standard_fire(t)
-    bare, amv, d, rho, c, lam_T, lam_v, lam_n, delay = run.members(n, np.random.default_rng(seed), t)
-    p = ~bare
+    rows = run.member_rows(n, np.random.default_rng(seed))
+    p = ~rows.bare
+    r = rows.take(p)
     m = int(p.sum())
-    # moisture back from the ECCS delay run.members gives (5 % on its wet members)
-    moist = np.where(delay[p] > 0.0, delay[p] * 5.0 * lam_v[p, 0] / (60.0 * rho[p] * d[p] ** 2), 0.0)
-    cin = conduction.ConductionInputs(t, g.reshape(-1, 1), np.zeros(m, dtype=np.int64), amv[p], d[p], rho[p], c[p],
-                                      lam_T[p], lam_v[p], lam_n[p], moist, np.full(m, 550.0))
-    lin = (t, g, bare[p], amv[p], 25.0, 0.7, 7850.0, d[p], rho[p], c[p], lam_T[p], lam_v[p], lam_n[p], delay[p],
-           np.full(m, 550.0), np.zeros(0, dtype=np.int64), False)
-    kind = np.where(lam_n[p] > 1, "table", np.where(moist > 0.0, "moisture", "constant"))
+    # moisture back from the ECCS delay the rows carry (5 % on their wet members)
+    moist = np.where(r.moisture_delay_s > 0.0,
+                     r.moisture_delay_s * 5.0 * r.conductivity[:, 0] / (60.0 * r.density * r.thickness_m ** 2), 0.0)
+    cin = conduction.ConductionInputs(t, g.reshape(-1, 1), np.zeros(m, dtype=np.int64), r.section_factor_per_m,
+                                      r.thickness_m, r.density, r.specific_heat, r.conductivity_C, r.conductivity,
+                                      r.conductivity_n, moist, np.full(m, 550.0))
+    lin = (heat.Fires(t, g[:, None]), r)
+    kind = np.where(r.conductivity_n > 1, "table", np.where(moist > 0.0, "moisture", "constant"))
     return cin, lin, kind
+
+
+def lumped(lin):
+    return heat.run(*lin, emissivity_resultant=0.7, steel_density_kg_m3=7850.0)
 
 
 def timed(fn):
@@ -75,7 +81,7 @@ def kernel_figures(rounds):
     per = 1e9 / (m * steps)
     conv = conduction.run_converged(cin)
     jobs = {
-        "eq (4.27), heat.batch": lambda: heat.batch(*lin),
+        "eq (4.27), heat.run": lambda: lumped(lin),
         "conduction, 8 cells": lambda: conduction.run(cin, 8, 1),
         "conduction, 16 cells": lambda: conduction.run(cin, 16, 1),
         "conduction, run_converged": lambda: conduction.run_converged(cin),
@@ -97,24 +103,24 @@ def kernel_figures(rounds):
         for k in ("constant", "table", "moisture"):
             idx = np.nonzero(kind == k)[0]
             sub = conduction._subset(cin, idx)
-            lsub = tuple(a[idx] if isinstance(a, np.ndarray) and a.shape[:1] == (m,) else a for a in lin)
+            lsub = (lin[0], lin[1].take(idx))
             per_k = 1e9 / (idx.size * steps)
-            heat.batch(*lsub)
+            lumped(lsub)
             conduction.run(sub, 8, 1)
-            kinds[k] = (statistics.median(timed(lambda: heat.batch(*lsub)) * per_k for _ in range(rounds)),
+            kinds[k] = (statistics.median(timed(lambda: lumped(lsub)) * per_k for _ in range(rounds)),
                         statistics.median(timed(lambda: conduction.run(sub, 8, 1)) * per_k for _ in range(rounds)))
     finally:
         numba.set_num_threads(old)
     med = {k: statistics.median(v) for k, v in figs.items()}
     print(f"kernels: {m} protected members (constant, tabulated conductivity, 5 % moisture), standard fire "
           f"240 min at 5 s ({steps} steps); ns per member-step, medians of {rounds} interleaved rounds")
-    base = {th: med["eq (4.27), heat.batch", th] for th in threads}
+    base = {th: med["eq (4.27), heat.run", th] for th in threads}
     for name in jobs:
         cells = "   ".join(f"{th} thread{'s' if th > 1 else ' '} {med[name, th]:6.1f} "
                            f"({med[name, th] / base[th]:4.1f}x)" for th in threads)
         print(f"  {name:28s} {cells}")
     if len(threads) == 2:
-        lumped2 = med["eq (4.27), heat.batch", 1] / med["eq (4.27), heat.batch", 2]
+        lumped2 = med["eq (4.27), heat.run", 1] / med["eq (4.27), heat.run", 2]
         print(f"  two threads / one: eq (4.27) {lumped2:.2f}x,"
               f" conduction 8 cells {med['conduction, 8 cells', 1] / med['conduction, 8 cells', 2]:.2f}x")
     print("  by kind, one thread (eq (4.27) / conduction 8 cells, ns per member-step):")
@@ -132,8 +138,9 @@ def check_figures(members, rounds):
     import run
 
     from steelfire import cli
+    from steelfire.chain import analysis, protected, steps
 
-    def all_protected(n=1000, seed=3, thickness=False, as_dict=False):
+    def all_protected(n=1000, seed=3, thickness=False, as_dict=False, resistance=False):
         d = original(n=n, seed=seed, thickness=thickness, as_dict=True)
         rng = np.random.default_rng(seed + 1)
         for m in d["member"]:
@@ -145,34 +152,25 @@ def check_figures(members, rounds):
 
     original = run.sizing_case
     run.sizing_case = all_protected
-    lumped = heat.batch
-    spent = {"conduction": 0.0}
+    both_models, convergence = protected.run_both, steps.sensitivity
 
-    def both(time_s, gas_C, bare, ksh_amv, alpha_c, eps_res, rho_a, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
-             threshold_C, query_idx, keep_history):
-        out = lumped(time_s, gas_C, bare, ksh_amv, alpha_c, eps_res, rho_a, d_p, rho_p, c_p, lam_T, lam_v, lam_n,
-                     delay_s, threshold_C, query_idx, keep_history)
-        t0 = time.perf_counter()
-        p = ~np.asarray(bare, dtype=bool)
-        if p.any():
-            lam_n = np.asarray(lam_n)
-            moist = np.where(delay_s[p] > 0.0, delay_s[p] * 5.0 * lam_v[p, 0] / (60.0 * rho_p[p] * d_p[p] ** 2), 0.0)
-            m = int(p.sum())
-            gas = np.asarray(gas_C, dtype=float).reshape(-1, 1)
-            cin = conduction.ConductionInputs(np.asarray(time_s, dtype=float), gas, np.zeros(m, dtype=np.int64),
-                                              ksh_amv[p], d_p[p], rho_p[p], c_p[p], lam_T[p], lam_v[p], lam_n[p],
-                                              moist, np.asarray(threshold_C)[p], rho_a)
-            conduction.run(cin, 8, 1)
-        spent["conduction"] += time.perf_counter() - t0
-        return out
+    def lumped_only(case, fire, exposures, cols, crit, design, peak, *rest):
+        n = len(case.members)
+        nan = np.full(n, np.nan)
+        return protected.TwoModels(nan, nan.copy(), [None] * n, ["lumped"] * n, nan.copy(), np.zeros(n, bool)), []
 
-    def one(path, with_conduction):
-        heat.batch = both if with_conduction else lumped
+    def no_convergence(case, fire, exposures, cols, crit, lumped_peak, peak, cross, two, judged_at, required_s):
+        n = len(case.members)
+        return steps.Sensitivity(np.full(n, np.nan), np.full(n, np.nan), [False] * n)
+
+    def one(path, full):
+        protected.run_both = both_models if full else lumped_only
+        steps.sensitivity = convergence if full else no_convergence
         try:
             with open(os.devnull, "w") as sink, contextlib.redirect_stdout(sink):
                 return timed(lambda: cli.main(["check", str(path), "--json"]))
         finally:
-            heat.batch = lumped
+            protected.run_both, steps.sensitivity = both_models, convergence
 
     try:
         with tempfile.TemporaryDirectory(prefix="steelfire-conduction-check-") as tmp:
@@ -180,19 +178,17 @@ def check_figures(members, rounds):
             large = check_profile.write_case(Path(tmp), members)
             wall_small = check_profile.whole_command(small, 3)
             one(small, True)
-            today, with_both, cond = [], [], []
+            today, full = [], []
             for _ in range(rounds):
                 today.append(one(large, False))
-                spent["conduction"] = 0.0
-                with_both.append(one(large, True))
-                cond.append(spent["conduction"])
+                full.append(one(large, True))
     finally:
         run.sizing_case = original
-    a, b, c = statistics.median(today), statistics.median(with_both), statistics.median(cond)
+    a, b = statistics.median(today), statistics.median(full)
     print(f"check of {members:,} protected members (CSV schedule, parametric fire and standard fire 240 min at 5 s), "
           f"in one process after start-up; medians of {rounds} alternate runs, {numba.get_num_threads()} threads:")
-    print(f"  today (eq (4.27) alone)        {a:6.2f} s")
-    print(f"  with the conduction kernel too {b:6.2f} s  ({b / a:.2f}x; of which the conduction kernel {c:.2f} s)")
+    print(f"  eq (4.27) alone                                   {a:6.2f} s")
+    print(f"  with the conduction model and half-step convergence {b:6.2f} s  ({b / a:.2f}x)")
     print(f"  with the start-up of a one-member command ({wall_small:.2f} s) added: "
           f"{(wall_small + b) / (wall_small + a):.2f}x")
 

@@ -30,7 +30,7 @@ from typing import NamedTuple
 import numba as nb
 import numpy as np
 from numba.core import cgutils
-from numba.extending import intrinsic, overload
+from numba.extending import intrinsic
 
 from steelfire.models import steel
 
@@ -112,19 +112,6 @@ class ThermalRun(NamedTuple):
     history_C: np.ndarray
 
 
-def _gas(gas_C, i, fire, j):
-    """The gas temperature member ``j`` of a chunk sees at step ``i``: ``gas_C[i]`` when the call's rows
-    share one fire (a column), ``gas_C[i, fire[j]]`` for a matrix (compiled per case, see below)."""
-    return gas_C[i] if gas_C.ndim == 1 else gas_C[i, fire[j]]
-
-
-@overload(_gas)
-def _gas_compiled(gas_C, i, fire, j):
-    if gas_C.ndim == 1:
-        return lambda gas_C, i, fire, j: gas_C[i]
-    return lambda gas_C, i, fire, j: gas_C[i, fire[j]]
-
-
 @nb.njit(cache=True, inline="always", error_model="numpy", fastmath=BATCH_MATH)
 def expm1_scaled(y, k):
     """e^y - 1 by a degree-11 Taylor polynomial of e^(y/16) - 1 and four squarings ((1+p)^2 - 1 = p (2 + p));
@@ -167,16 +154,35 @@ def heat_capacity_fraction(x, rho_a, k):
     return num, (den_f if inside else 1.0)
 
 
-@nb.njit(cache=True, inline="always")
 def _chunking(n_m, nt):
     """(number of chunks, members per chunk): chunks of at most CHUNK members, as many as a multiple of
-    the ``nt`` threads and all of about one size. The thread count is an argument: read inside a kernel
-    it would stop numba caching it."""
+    the ``nt`` threads and all of about one size."""
     nt = max(nt, 1)
     n_chunks = (n_m + CHUNK - 1) // CHUNK
     n_chunks = ((n_chunks + nt - 1) // nt) * nt
     width = max((n_m + n_chunks - 1) // n_chunks, 1)
     return (n_m + width - 1) // width, width
+
+
+def plan_chunks(fire_sorted, n_threads):
+    """(chunk starts (n_chunks + 1,), fire of each chunk) for rows sorted by fire: every chunk holds rows
+    of one fire, so that the kernel reads that fire's gas as one number per step. Rows of a single fire
+    are cut into chunks of about one size, as many as a multiple of the threads (:func:`_chunking`);
+    the rows of several fires into chunks of at most CHUNK per fire."""
+    f = np.asarray(fire_sorted, dtype=np.int64)
+    n = len(f)
+    runs = np.flatnonzero(np.concatenate([[True], f[1:] != f[:-1]])) if n else np.zeros(0, dtype=np.int64)
+    ends = np.concatenate([runs[1:], [n]])
+    starts, fires = [], []
+    for a, b in zip(runs.tolist(), ends.tolist()):
+        length = b - a
+        k, width = _chunking(length, n_threads) if len(runs) == 1 else (-(-length // CHUNK), -(-length // -(-length // CHUNK)))
+        for j in range(k):
+            lo = a + j * width
+            if lo < b:
+                starts.append(lo)
+                fires.append(f[a])
+    return np.array(starts + [n], dtype=np.int64), np.array(fires, dtype=np.int64)
 
 
 @intrinsic
@@ -210,13 +216,6 @@ def _chunk_state(w):
     of the threshold and the temperatures either side of it (+inf: none yet), the last increment."""
     return (np.full(w, 20.0), np.full(w, 20.0), np.zeros(w, dtype=np.int64), np.full(w, np.inf),
             np.full(w, np.inf), np.full(w, np.inf), np.zeros(w))
-
-
-@nb.njit(cache=True, inline="always")
-def _chunk_fires(fire, lo, w, fj):
-    """The chunk's fire columns into ``fj``."""
-    for j in range(w):
-        fj[j] = fire[lo + j]
 
 
 @nb.njit(cache=True, inline="always")
@@ -265,20 +264,21 @@ def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cro
 
 
 @nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
-def _protected_chunks(time_s, gas_C, fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s, rho_a,
-                      threshold_C, query_idx, keep_history, n_threads, ca_k, ex_k):
+def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
+                      rho_a, threshold_C, query_idx, keep_history, n_threads, ca_k, ex_k):
     n_t = time_s.shape[0]
     n_m = ap_v.shape[0]
     n_q = query_idx.shape[0]
     n_k = lam_T.shape[1]
     peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
-    n_chunks, width = _chunking(n_m, n_threads)
+    n_chunks = chunk_fire.shape[0]
     tickets = np.zeros(1, dtype=np.int64)
     for _worker in nb.prange(min(n_threads, n_chunks)):
         c = _take_ticket(tickets)
         while c < n_chunks:
-            lo = c * width
-            w = min(lo + width, n_m) - lo
+            lo = chunk_start[c]
+            w = chunk_start[c + 1] - lo
+            gas = gas_FT[chunk_fire[c]]   # the chunk's fire: one gas temperature per step
             th, pk, pki, ci, cx, cn, dl = _chunk_state(w)
             held = np.zeros(w)
             cap = np.empty(w)
@@ -290,11 +290,9 @@ def _protected_chunks(time_s, gas_C, fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, 
             phi10 = np.empty(w)         # phi / 10 of eq (4.27)
             flow = np.empty(w)          # the conduction term of eq (4.27) [C]
             ex = np.empty(w)            # e^(phi/10) - 1
-            fj = np.empty(w, dtype=np.int64)
             tk = np.empty((n_k, w))      # conductivity table: knot temperatures (+inf past the last knot)
             vk = np.empty((n_k, w))      # value at the knot
             sk = np.empty((n_k, w))      # slope after the knot (0 past the last knot: end value held)
-            _chunk_fires(fire, lo, w, fj)
             for j in range(w):
                 m = lo + j
                 cap[j] = c_p[m] * rho_p[m] * d_p[m] * ap_v[m]
@@ -335,13 +333,13 @@ def _protected_chunks(time_s, gas_C, fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, 
                     s = num + cap3[j] * den
                     r = 1.0 / (num * s)
                     phi10[j] = 0.1 * cap[j] * den * s * r
-                    flow[j] = lamj[j] * k_[j] * (_gas(gas_C, i, fj, j) - x) * dt * den * num * r
+                    flow[j] = lamj[j] * k_[j] * (gas[i] - x) * dt * den * num * r
                 for j in range(w):
                     ex[j] = expm1_scaled(phi10[j], ex_k)
                 i_f = float(i)
                 for j in range(w):
                     x = th[j]
-                    dgjj = _gas(gas_C, i + 1, fj, j) - _gas(gas_C, i, fj, j)
+                    dgjj = gas[i + 1] - gas[i]
                     d_min = 0.0 if dgjj > 0.0 else -np.inf
                     d = max(flow[j] - ex[j] * dgjj, d_min)   # not negative while the gas heats
                     new = x + d
@@ -360,26 +358,26 @@ def _protected_chunks(time_s, gas_C, fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, 
 
 
 @nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
-def _bare_chunks(time_s, gas_C, rad4, fire, ksh_amv, alpha_c, eps_res, rho_a, threshold_C, query_idx, keep_history,
-                 n_threads, ca_k):
+def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alpha_c, eps_res, rho_a, threshold_C,
+                 query_idx, keep_history, n_threads, ca_k):
     n_t = time_s.shape[0]
     n_m = ksh_amv.shape[0]
     n_q = query_idx.shape[0]
     peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
     er = eps_res * STEFAN_BOLTZMANN
-    n_chunks, width = _chunking(n_m, n_threads)
+    n_chunks = chunk_fire.shape[0]
     tickets = np.zeros(1, dtype=np.int64)
     for _worker in nb.prange(min(n_threads, n_chunks)):
         c = _take_ticket(tickets)
         while c < n_chunks:
-            lo = c * width
-            w = min(lo + width, n_m) - lo
+            lo = chunk_start[c]
+            w = chunk_start[c + 1] - lo
+            gas = gas_FT[chunk_fire[c]]   # the chunk's fire
+            rad4 = rad4_FT[chunk_fire[c]]
             th, pk, pki, ci, cx, cn, dl = _chunk_state(w)
             kk = np.empty(w)
             ac = np.empty(w)
             thr = np.empty(w)
-            fj = np.empty(w, dtype=np.int64)
-            _chunk_fires(fire, lo, w, fj)
             for j in range(w):
                 kk[j] = ksh_amv[lo + j]
                 ac[j] = alpha_c[lo + j]
@@ -392,7 +390,7 @@ def _bare_chunks(time_s, gas_C, rad4, fire, ksh_amv, alpha_c, eps_res, rho_a, th
                     x = th[j]
                     ta = x + KELVIN
                     ta2 = ta * ta
-                    h_net = ac[j] * (_gas(gas_C, i, fj, j) - x) + er * (_gas(rad4, i, fj, j) - ta2 * ta2)
+                    h_net = ac[j] * (gas[i] - x) + er * (rad4[i] - ta2 * ta2)
                     num, den = heat_capacity_fraction(x, rho_a, ca_k)  # c_a rho_a = num / den: one division
                     new = x + kk[j] * h_net * dt * den / num
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
@@ -403,10 +401,6 @@ def _bare_chunks(time_s, gas_C, rad4, fire, ksh_amv, alpha_c, eps_res, rho_a, th
             c = _take_ticket(tickets)
     return peak, peak_t, cross, at_q, last, hist
 
-
-#: Rows per fire from which :func:`run` calls the kernels once per fire (the gas a column) rather than once
-#: for all fires (the gas gathered per member and step, about twice the cost per member-step).
-PER_FIRE_CALL_ROWS = 256
 
 #: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
 COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
@@ -462,41 +456,33 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     groups = (np.flatnonzero(bare), np.flatnonzero(~bare & (lam_n == 1)), np.flatnonzero(~bare & (lam_n > 1)))
     n_threads = int(nb.get_num_threads())
     rho_a = float(steel_density_kg_m3)
-    parts = []
+    gas_FT = np.ascontiguousarray(gas.T)   # one row per fire: a chunk reads its fire's row
+    rad4_FT = None
     for gi, idx in enumerate(groups):
         if len(idx) == 0:
             continue
-        idx = idx[np.argsort(rows.fire[idx], kind="stable")]  # rows of one fire in the same chunks
-        f = rows.fire[idx]
-        starts = np.flatnonzero(np.concatenate([[True], f[1:] != f[:-1]]))
-        if 1 < len(starts) and len(idx) >= PER_FIRE_CALL_ROWS * len(starts):
-            # many rows per fire: one call per fire reads its gas as a column (no gather per member)
-            parts += [(gi, part) for part in np.split(idx, starts[1:])]
-        else:
-            parts.append((gi, idx))
-    for gi, idx in parts:
+        idx = idx[np.argsort(rows.fire[idx], kind="stable")]  # rows of one fire together
         r = rows.take(idx)
-        fire = r.fire.astype(np.int64)
-        one = fire[0] == fire[-1]   # sorted: one fire for every row of the group
-        g = np.ascontiguousarray(gas[:, fire[0]]) if one else gas
+        chunk_start, chunk_fire = plan_chunks(r.fire, n_threads)
         thr = r.threshold_C.astype(float)
         if gi == 0:
-            rad4 = (rad[:, fire[0]] if one else rad) + KELVIN
-            rad4 = np.ascontiguousarray(rad4 * rad4 * rad4 * rad4)
-            args = (time_s, g, rad4, fire, r.section_factor_per_m, r.alpha_c.astype(float),
+            if rad4_FT is None:
+                t4 = rad.T + KELVIN
+                rad4_FT = np.ascontiguousarray(t4 * t4 * t4 * t4)
+            args = (time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.alpha_c.astype(float),
                     float(emissivity_resultant), rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS)
             _announce_compile(_bare_chunks, args, 10)
             res = _bare_chunks(*args)
         else:
             k = 1 if gi == 1 else int(lam_n[idx].max())
-            args = (time_s, g, fire, r.section_factor_per_m, r.thickness_m, r.density, r.specific_heat,
-                    np.ascontiguousarray(r.conductivity_C[:, :k]), np.ascontiguousarray(r.conductivity[:, :k]),
-                    r.conductivity_n.astype(np.int64), r.moisture_delay_s, rho_a, thr, q, keep_history, n_threads,
-                    SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
+            args = (time_s, gas_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.thickness_m, r.density,
+                    r.specific_heat, np.ascontiguousarray(r.conductivity_C[:, :k]),
+                    np.ascontiguousarray(r.conductivity[:, :k]), r.conductivity_n.astype(np.int64), r.moisture_delay_s,
+                    rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
             _announce_compile(_protected_chunks, args, 15)
             res = _protected_chunks(*args)
-        for a, b in zip(out[:5], res[:5]):
-            a[idx] = b
+        for a_, b_ in zip(out[:5], res[:5]):
+            a_[idx] = b_
         if keep_history:
             out[5][:, idx] = res[5]
     gas_max = np.maximum.accumulate(gas, axis=0)
