@@ -1,4 +1,4 @@
-"""Time equivalence formulas: EN 1991-1-2 Annex F and CIB W14 (steelfire.equivalence).
+"""Time equivalence formulas: EN 1991-1-2 Annex F and CIB W14 (steelfire.models.equivalence).
 
 Every expected value carries its source. "Hand calculation" values were worked out from the formulas
 as written in the comment (a calculator on the printed formula, not this module); they are asserted
@@ -15,9 +15,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from steelfire.codevalues import DEFAULTS, DEFINITIONS
 from steelfire.models.equivalence import (
-    DEFAULT_CODE_VALUES,
-    CODE_VALUE_SOURCES,
     annex_f_conversion_factor,
     annex_f_correction_factor,
     annex_f_time_equivalence,
@@ -63,7 +62,7 @@ COMPARTMENT_B = dict(
 
 def test_annex_f_compartment_a_protected_every_factor():
     r = annex_f_time_equivalence(**COMPARTMENT_A, protected=True)
-    # hand calculation per EN 1991-1-2 Table F.1: 720 <= b = 1500 <= 2500 -> k_b = 0.055
+    # hand calculation per EN 1991-1-2 Table F.2: 720 <= b = 1500 <= 2500 -> k_b = 0.055
     assert r.k_b == pytest.approx(0.055, rel=REL)
     assert r.k_b_band == "720 <= b <= 2500"
     # hand calculation: alpha_v = 9/60 = 0.15 (inside 0.025..0.25), alpha_h = 0/60 = 0
@@ -79,7 +78,7 @@ def test_annex_f_compartment_a_protected_every_factor():
     #   w_f = 1.2311444133 * (0.62 + 0.3515625) = 1.2311444133 * 0.9715625 = 1.1961337441 (>= 0.5)
     assert r.w_f_raw == pytest.approx(1.1961337440904203, rel=REL)
     assert r.w_f == pytest.approx(1.1961337440904203, rel=REL)
-    # hand calculation per EN 1991-1-2 Table F.2: protected steel -> k_c = 1.0
+    # hand calculation per EN 1991-1-2 Table F.1: protected steel -> k_c = 1.0
     assert r.k_c == 1.0
     # hand calculation per eq (F.1): t_e,d = 600 * 0.055 * 1.1961337441 * 1.0 = 33 * 1.1961337441 = 39.4724136 min
     assert r.t_e_min == pytest.approx(39.472413554983866, rel=REL)
@@ -102,7 +101,7 @@ def test_annex_f_compartment_a_protected_every_factor():
 
 def test_annex_f_compartment_b_bare_steel_every_factor():
     r = annex_f_time_equivalence(**COMPARTMENT_B, protected=False)
-    # hand calculation per Table F.1: b = 400 < 720 -> k_b = 0.07
+    # hand calculation per Table F.2: b = 400 < 720 -> k_b = 0.07
     assert r.k_b == pytest.approx(0.07, rel=REL)
     assert r.k_b_band == "b < 720"
     # hand calculation: alpha_v = 40/400 = 0.1, alpha_h = 8/400 = 0.02
@@ -121,7 +120,7 @@ def test_annex_f_compartment_b_bare_steel_every_factor():
     assert r.w_f == pytest.approx(1.2065775096850222, rel=REL)
     # hand calculation: O = 40 * sqrt(2) / 1160 = 56.5685425 / 1160 = 0.0487659849 m^0.5
     assert r.opening_factor_m05 == pytest.approx(0.048765984909417075, rel=REL)
-    # hand calculation per Table F.2: unprotected steel k_c = 13.7 O = 13.7 * 0.0487659849 = 0.6680939933
+    # hand calculation per Table F.1: unprotected steel k_c = 13.7 O = 13.7 * 0.0487659849 = 0.6680939933
     assert r.k_c == pytest.approx(0.6680939932590139, rel=REL)
     assert "13.7" in r.k_c_basis
     # hand calculation per eq (F.1): t_e,d = 500 * 0.07 * 1.2065775097 * 0.6680939933
@@ -138,8 +137,8 @@ def test_cib_w14_compartment_a_protected():
     # hand calculation: w = A_f / sqrt(A_v A_t sqrt(h_eq)) = 60 / sqrt(9 * 216 * 1.2247448714)
     #   = 60 / sqrt(2380.9040) = 60 / 48.794508 = 1.2296465774 m^-0.25
     assert r.w == pytest.approx(1.2296465774448018, rel=REL)
-    # from memory (CIB W14 1986 design guide, textbook reproduction): 720 <= b <= 2500 -> k_c = 0.07
-    assert r.k_c == pytest.approx(0.07, rel=REL)
+    # from memory (CIB W14 1986 design guide, textbook reproduction): 720 <= b <= 2500 -> c = 0.07
+    assert r.c == pytest.approx(0.07, rel=REL)
     # hand calculation: t_e = 0.07 * 1.2296465774 * 600 = 51.6451563 min
     assert r.t_e_min == pytest.approx(51.64515625268167, rel=REL)
     assert r.not_applicable_reason is None
@@ -150,8 +149,8 @@ def test_cib_w14_compartment_b_protected_and_bare():
     # hand calculation: w = 400 / sqrt(40 * 1160 * sqrt(2)) = 400 / sqrt(65619.5093) = 400 / 256.16305
     #   = 1.5615054420 m^-0.25
     assert r.w == pytest.approx(1.5615054420240915, rel=REL)
-    # from memory (CIB W14 1986): b = 400 < 720 -> k_c = 0.09 min m^2.25/MJ
-    assert r.k_c == pytest.approx(0.09, rel=REL)
+    # from memory (CIB W14 1986): b = 400 < 720 -> c = 0.09 min m^2.25/MJ
+    assert r.c == pytest.approx(0.09, rel=REL)
     # hand calculation: t_e = 0.09 * 1.5615054420 * 500 = 70.2677449 min
     assert r.t_e_min == pytest.approx(70.26774489108412, rel=REL)
     # the formula has no roof-opening term: the 8 m2 of roof vents are ignored, with a warning
@@ -179,11 +178,11 @@ def test_annex_f_small_compartment_w_f_equals_cib_w():
 @pytest.mark.parametrize(
     "b, expected",
     [
-        (719.9, 0.07),    # EN 1991-1-2 Table F.1 (from memory of the table): b < 720 -> 0.07
-        (720.0, 0.055),   # Table F.1: 720 <= b, boundary in the middle row -> 0.055
-        (1500.0, 0.055),  # Table F.1: middle row
-        (2500.0, 0.055),  # Table F.1: b <= 2500, boundary in the middle row -> 0.055
-        (2500.1, 0.04),   # Table F.1: b > 2500 -> 0.04
+        (719.9, 0.07),    # EN 1991-1-2 Table F.2 (from memory of the table): b < 720 -> 0.07
+        (720.0, 0.055),   # Table F.2: 720 <= b, boundary in the middle row -> 0.055
+        (1500.0, 0.055),  # Table F.2: middle row
+        (2500.0, 0.055),  # Table F.2: b <= 2500, boundary in the middle row -> 0.055
+        (2500.1, 0.04),   # Table F.2: b > 2500 -> 0.04
         (None, 0.07),     # Annex F general value where b is not assessed: 0.07 (from memory)
     ],
 )
@@ -205,8 +204,8 @@ def test_annex_f_kb_unknown_b_is_flagged():
     "b, expected",
     [
         (719.9, 0.09),    # from memory (CIB W14 1986): b < 720 -> 0.09
-        (720.0, 0.07),    # from memory: 720..2500 -> 0.07; boundary side assumed as in EN Table F.1
-        (2500.0, 0.07),   # from memory: boundary side assumed as in EN Table F.1
+        (720.0, 0.07),    # from memory: 720..2500 -> 0.07; boundary side assumed as in EN Table F.2
+        (2500.0, 0.07),   # from memory: boundary side assumed as in EN Table F.2
         (2500.1, 0.05),   # from memory: b > 2500 -> 0.05
         (None, 0.1),      # from memory: general value 0.1 when b is unknown
     ],
@@ -306,9 +305,9 @@ def test_annex_f_small_compartment_applicability():
 
 
 def test_annex_f_bare_steel_kc_is_13_7_O():
-    # hand calculation per Table F.2: k_c = 13.7 * 0.04 = 0.548
+    # hand calculation per Table F.1: k_c = 13.7 * 0.04 = 0.548
     assert annex_f_correction_factor(protected=False, opening_factor_m05=0.04) == pytest.approx(0.548, rel=REL)
-    # Table F.2: protected steel and reinforced concrete -> 1.0
+    # Table F.1: protected steel and reinforced concrete -> 1.0
     assert annex_f_correction_factor(protected=True) == 1.0
     assert annex_f_correction_factor(construction="reinforced_concrete", protected=False) == 1.0
     r = annex_f_time_equivalence(**{**COMPARTMENT_A, "opening_factor_m05": 0.05103103630798288},
@@ -345,7 +344,7 @@ def test_opening_factor_inconsistent_with_geometry_warns():
 # ---------------------------------------------------------------------------------------------------
 def test_code_values_defaults_echoed_and_documented():
     r = annex_f_time_equivalence(**COMPARTMENT_A)
-    # EN 1991-1-2 recommended values (Table F.1, eq F.2, Table F.2, from memory)
+    # EN 1991-1-2 recommended values (Table F.2, eq F.2, Table F.1, from memory)
     assert r.code_values["annex_f_kb_medium_inertia"] == 0.055
     assert r.code_values["annex_f_wf_min"] == 0.5
     assert r.code_values["annex_f_bv_min"] == 10.0
@@ -354,8 +353,10 @@ def test_code_values_defaults_echoed_and_documented():
     assert r.code_values["annex_f_kc_bare_steel_per_o"] == 13.7
     assert all(k.startswith("annex_f_") for k in r.code_values)
     c = cib_w14_time_equivalence(**COMPARTMENT_A)
-    assert set(c.code_values) == {k for k in DEFAULT_CODE_VALUES if k.startswith("cib_w14_")}
-    assert set(CODE_VALUE_SOURCES) == set(DEFAULT_CODE_VALUES)
+    assert set(c.code_values) == {k for k in DEFAULTS if k.startswith("cib_w14_")}
+    # every value echoed is a registry entry naming its clause
+    for k in [*r.code_values, *c.code_values]:
+        assert DEFINITIONS[k].clause and DEFINITIONS[k].value == DEFAULTS[k]
 
 
 def test_code_override_changes_result_and_is_echoed():
@@ -366,7 +367,7 @@ def test_code_override_changes_result_and_is_echoed():
     assert r.t_e_min == pytest.approx(43.06081478725513, rel=REL)
     assert r.code_values["annex_f_kb_medium_inertia"] == 0.06
     assert "t_lim_fast_min" not in r.code_values
-    c = cib_w14_time_equivalence(**COMPARTMENT_A, code={"cib_w14_kc_medium_inertia": 0.08})
+    c = cib_w14_time_equivalence(**COMPARTMENT_A, code={"cib_w14_c_medium_inertia": 0.08})
     # hand calculation: 0.08 * 1.2296465774 * 600 = 59.0230357 min
     assert c.t_e_min == pytest.approx(59.02303571735049, rel=REL)
 
@@ -380,8 +381,8 @@ def test_code_override_unknown_name_in_namespace_raises():
 @pytest.mark.parametrize("value", [-0.1, 0.0, float("nan"), "0.05", True])
 def test_code_override_bad_value_raises(value):
     with pytest.raises(InputError) as e:
-        cib_w14_time_equivalence(**COMPARTMENT_A, code={"cib_w14_kc_general": value})
-    assert e.value.field == "code.cib_w14_kc_general"
+        cib_w14_time_equivalence(**COMPARTMENT_A, code={"cib_w14_c_general": value})
+    assert e.value.field == "code.cib_w14_c_general"
 
 
 def test_to_dict_is_json_ready():

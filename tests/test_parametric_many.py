@@ -9,7 +9,7 @@ import math
 import numpy as np
 import pytest
 
-from steelfire.chain.analysis import time_grid
+from steelfire.chain.fires import time_grid
 from steelfire.errors import InputError
 from steelfire.models.fire import parametric as P
 

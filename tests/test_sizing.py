@@ -1,29 +1,38 @@
-"""Least protection thickness (steelfire.sizing) at the level of kernel arrays."""
+"""Least protection thickness (steelfire.chain.sizing) on the members' kernel columns."""
 
 import numpy as np
 import pytest
 
 import twins
-from steelfire.chain import sizing
-from steelfire.chain.analysis import time_grid
+from steelfire.chain import sizing, thermal
+from steelfire.chain.fires import time_grid
+from steelfire.inputs.case import case_from_dict
 from steelfire.models.fire import nominal, parametric
 
-EPS, RHO_A = 0.7, 7850.0
 
-
-def thermal(ap_v, rho=800.0, c=1700.0, lam=0.2, moisture=0.0):
-    n = len(ap_v)
-    return sizing.ThermalSet(ap_v=np.asarray(ap_v, float), rho_p=np.full(n, rho), c_p=np.full(n, c),
-                             lam_T=np.full((n, 1), 20.0), lam_v=np.full((n, 1), lam), lam_n=np.ones(n, np.int64),
-                             moisture_percent=np.full(n, moisture), lam20=np.full(n, lam))
+def columns(ap_v, rho=800.0, c=1700.0, lam=0.2, moisture=0.0):
+    """The kernel columns (chain.thermal.MemberColumns) of protected members of Ap/V ``ap_v`` in one
+    material (a generic board: illustrative values), and the EN code values."""
+    data = {"fire": {"curve": "standard", "duration_min": 60.0},
+            "materials": {"m": {"density": rho, "conductivity": lam, "specific_heat": c, "moisture_percent": moisture}},
+            "member": [{"name": f"M{i}", "kind": "tension", "section_factor_per_m": float(a),
+                        "critical_temperature_C": 550.0, "protection": "m", "thickness_mm": 10.0}
+                       for i, a in enumerate(ap_v)]}
+    case = case_from_dict(data)
+    return thermal.MemberColumns(case), case.code
 
 
 def fires(q=370.0, o=0.04, b=1500.0, hours=6.0):
     ts = time_grid(240 * 60.0, 5.0)
-    std = sizing.Fire(ts, nominal.standard_fire(ts), 25.0)
+    std = sizing.Fire(ts, nominal.standard_fire(ts), 25.0, nominal=True)
     pf = parametric.parametric_fire(o, b, q, 25 / 60)
     td = time_grid(hours * 3600.0, 5.0, [pf.t_max_s, pf.burnout_time_s])
     return std, sizing.Fire(td, pf.gas_temperature(td), 35.0)
+
+
+def make_problem(ap_v, crit, required_s, standard, design, **kw):
+    cols, code = columns(ap_v, **kw)
+    return sizing.Problem(cols, np.arange(len(ap_v)), crit, required_s, standard, design, code)
 
 
 def grid(lo_m, hi_m, step_m=0.5e-3):
@@ -33,8 +42,7 @@ def grid(lo_m, hi_m, step_m=0.5e-3):
 
 def problem(ap_v, crit, req_min, design=True, **kw):
     std, des = fires()
-    return sizing.Problem(thermal(ap_v, **kw), crit, np.asarray(req_min, float) * 60.0, std, des if design else None,
-                          EPS, RHO_A)
+    return make_problem(ap_v, crit, np.asarray(req_min, float) * 60.0, std, des if design else None, **kw)
 
 
 def test_standard_period_sized_passes_and_0p2mm_less_fails():
@@ -78,7 +86,7 @@ def test_burnout_non_monotone_heavy_protection():
     thicknesses well above it fail again: found by an independent fine scan with the twin."""
     ap_v, crit = 200.0, 600.0
     std, des = fires()
-    p = sizing.Problem(thermal([ap_v]), [crit], [np.nan], std, des, EPS, RHO_A)
+    p = make_problem([ap_v], [crit], [np.nan], std, des)
     ds = np.arange(5e-3, 0.1, 1e-3)
     peaks = np.array([max(twins.protected_history(list(des.time_s), list(des.gas_C), ap_v, d, 800.0, 1700.0,
                                                   [(20.0, 0.2)])) for d in ds[::5]])
@@ -105,7 +113,7 @@ def test_not_achievable_reported():
 def test_round_up_and_verify_skips_failing_supplied_thickness():
     ap_v, crit = 200.0, 600.0
     std, des = fires()
-    p = sizing.Problem(thermal([ap_v]), [crit], [np.nan], std, des, EPS, RHO_A)
+    p = make_problem([ap_v], [crit], [np.nan], std, des)
     r = sizing.size_burnout(p, [grid(5e-3, 0.1)])
     d = r.thickness_m[0]
     # the first candidate above the failing end fails (too thin), the next passes: it is taken
@@ -129,24 +137,3 @@ def test_scan_grid_uses_supplied_thicknesses_or_a_log_spread():
     g = sizing.scan_grid(many)
     assert len(g) == sizing.SCAN_POINTS and g[0] == many[0] and g[-1] == many[-1]
     assert np.all(np.diff(np.log(g)) < 0.09)  # about 7 % apart
-
-
-def test_batch_many_chunks_and_threshold_at_start():
-    """More members than one chunk (the parallel path) and a threshold at or below 20 C."""
-    from steelfire.models import heat
-
-    t = time_grid(3600.0, 5.0)
-    g = nominal.standard_fire(t)
-    n = heat.CHUNK * 2 + 37
-    ap = np.linspace(30.0, 300.0, n)
-    d = np.full(n, 0.015)
-    one = np.ones(n)
-    thr = np.full(n, 500.0)
-    thr[5] = 20.0
-    out = heat.batch(t, g, np.zeros(n, np.bool_), ap, 25.0, EPS, RHO_A, d, one * 800.0, one * 1700.0,
-                     np.full((n, 1), 20.0), np.full((n, 1), 0.2), np.ones(n, np.int64), np.zeros(n), thr,
-                     np.zeros(0, np.int64), False)
-    for m in (0, heat.CHUNK - 1, heat.CHUNK, n - 1):
-        ref = twins.protected_history(list(t), list(g), ap[m], 0.015, 800.0, 1700.0, [(20.0, 0.2)])
-        assert out[0][m] == pytest.approx(max(ref), rel=1e-9)
-    assert out[2][5] == 0.0

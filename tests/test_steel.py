@@ -47,11 +47,17 @@ def test_specific_heat_points():
     assert steel.specific_heat(600.0) == pytest.approx(760.22, abs=0.05)
 
 
-def test_specific_heat_array_matches_kernel():
+def test_specific_heat_array_matches_twin_and_kernel_terms():
+    # EN 1993-1-2 eq (3.2a)-(3.2d) on arrays against the plain restatement in tests/twins.py, and the
+    # kernels' c_a rho_a = num / den (steelfire.models.heat) read from the same one definition
+    import twins
     from steelfire.models import heat
 
-    th = np.linspace(0.0, 1300.0, 2601)
-    np.testing.assert_allclose(steel.specific_heat(th), [heat.specific_heat_steel(float(x)) for x in th], rtol=1e-12)
+    th = np.linspace(0.0, 1200.0, 2401)
+    np.testing.assert_allclose(steel.specific_heat(th), [twins.c_a(float(x)) for x in th], rtol=1e-12)
+    for x in th[::7]:
+        num, den = heat.heat_capacity_fraction(float(x), 1.0, heat.SPECIFIC_HEAT_TERMS)
+        assert num / den == pytest.approx(steel.specific_heat(float(x)), rel=1e-12)
 
 
 @pytest.mark.parametrize("theta,ky,kp,ke", [

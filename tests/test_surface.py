@@ -8,6 +8,7 @@ from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
 from steelfire.errors import InputError
+import runs
 from steelfire.models import heat
 from steelfire.models.fire import surface
 from twins import c_a
@@ -79,14 +80,18 @@ def test_ast_below_both_single_mode_temperatures():
 def test_bare_member_under_constant_flux_reaches_ast():
     """A bare member under a constant flux settles where eq (C.9) vanishes, i.e. at T_ast.
 
-    Three integrations of EN 1993-1-2 eq (4.25) over 3 h, Am/V 200 1/m, h = 60 kW/m2 (invented demo
-    values): the numba kernel with gas = T_ast (step 2 s), a plain-Python loop of eq (C.9) directly,
-    and scipy.integrate.solve_ivp of eq (C.9) (rtol 1e-10).
+    Four integrations of EN 1993-1-2 eq (4.25) over 3 h, Am/V 200 1/m, h = 60 kW/m2 (invented demo
+    values): the kernels with gas = T_ast (step 2 s), the kernels with gas 20 C and radiation
+    temperature T_r (the other form of eq (C.9)), a plain-Python loop of eq (C.9) directly, and
+    scipy.integrate.solve_ivp of eq (C.9) (rtol 1e-10).
     """
     h, alpha_c, eps, amv, rho = 60e3, 35.0, 0.7, 200.0, 7850.0
     t_ast = float(surface.adiabatic_surface_temperature_C(h, alpha_c, eps))
     time = np.arange(0.0, 3 * 3600.0 + 1.0, 2.0)
-    kernel = heat.bare_history(time, np.full(time.size, t_ast), amv, alpha_c, eps, rho)
+    kernel = runs.bare_history(time, np.full(time.size, t_ast), amv, alpha_c, eps, rho)
+    t_r = float(surface.radiation_temperature_C(h, eps))
+    by_radiation = runs.bare_history(time, np.full(time.size, 20.0), amv, alpha_c, eps, rho,
+                                     radiation_C=np.full(time.size, t_r))
     theta = 20.0
     for _ in range(time.size - 1):
         theta += amv / (c_a(theta) * rho) * (h - loss(theta, alpha_c, eps)) * 2.0
@@ -99,6 +104,7 @@ def test_bare_member_under_constant_flux_reaches_ast():
     assert sol.y[0, -1] == pytest.approx(t_ast, abs=0.01)
     # the kernel with gas = T_ast and the direct eq (C.9) loop are the same recurrence (to rounding)
     assert kernel[-1] == pytest.approx(theta, rel=1e-9)
+    np.testing.assert_allclose(by_radiation, kernel, rtol=1e-9)
 
 
 def test_bad_input():
