@@ -3,6 +3,8 @@
 Every refused case must give exactly one line on stderr,
 ``steelfire: error: <field> = <value>: <what is allowed>``, exit code 2, nothing on stdout and no
 traceback, in each of the three ways of running a check: plain, ``--json`` and ``--time-step-s S``.
+The command runs in-process (``steelfire.cli.main``, tests/cli_run.py): an uncaught exception would be
+exit code 3 there; tests/test_cli.py runs a few refusals in a real process.
 
 Cases are built in ``tmp_path`` from small valid base cases (a nominal-fire case, a parametric-fire
 case, a tabulated-curve case), each changed in one place. The base cases themselves are run first
@@ -15,11 +17,11 @@ import copy
 import json
 import math
 import re
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
+
+import cli_run
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -202,16 +204,8 @@ def write_case(tmp_path: Path, data: dict | None = None, *, text: str | bytes | 
 
 
 def run_modes(case_path, *extra, modes=MODES):
-    """Run ``steelfire check`` in each mode (concurrently); {mode: CompletedProcess-like}."""
-    procs = {}
-    for mode, flags in modes.items():
-        cmd = [sys.executable, "-m", "steelfire", "check", str(case_path), *flags, *map(str, extra)]
-        procs[mode] = subprocess.Popen(cmd, cwd=ROOT, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
-    out = {}
-    for mode, p in procs.items():
-        stdout, stderr = p.communicate(timeout=600)
-        out[mode] = subprocess.CompletedProcess(p.args, p.returncode, stdout, stderr)
-    return out
+    """Run ``steelfire check`` in each mode, in-process (steelfire.cli.main); {mode: CompletedProcess}."""
+    return {mode: cli_run.main("check", case_path, *flags, *extra) for mode, flags in modes.items()}
 
 
 def assert_refused(case_path, field, value, allowed=None, extra=(), modes=MODES):
@@ -244,9 +238,15 @@ def refuse(tmp_path, base, changes, field, value, allowed=None, **kw):
     assert_refused(write_case(tmp_path, edited(base, *changes)), field, value, allowed, **kw)
 
 
-def P(base, changes, field, value, allowed=None, *, id):
+def P(base, changes, field, value, allowed=None, *, id, marks=()):
     """One parametrised refusal: base case, changes, expected field, value and allowed text."""
-    return pytest.param(base, changes, field, value, allowed, id=id)
+    return pytest.param(base, changes, field, value, allowed, id=id, marks=marks)
+
+
+#: Behaviour that changed without being on the list of deliberate changes: the expected line is the one
+#: of the release before the restructuring, reported to the lead; strict, so that the fix shows as XPASS.
+MISSING_SHOWN_AS_ABSENT = pytest.mark.xfail(
+    strict=True, reason="reported defect: a missing member value is quoted as ABSENT instead of None")
 
 
 CASE_ARGS = "base, changes, field, value, allowed"
@@ -278,10 +278,10 @@ def test_base_cases_run(tmp_path, base):
 
 MISSING = [
     P("nominal", [(M0 + ("section_factor_per_m",), DELETE)], "B1).section_factor_per_m", "None", "missing",
-      id="member-section-factor"),
-    P("nominal", [(M0 + ("name",), DELETE)], "member[1].name", "None", "missing", id="member-name"),
+      id="member-section-factor", marks=MISSING_SHOWN_AS_ABSENT),
+    P("nominal", [(M0 + ("name",), DELETE)], "member[1].name", "None", "missing", id="member-name", marks=MISSING_SHOWN_AS_ABSENT),
     P("nominal", [(M0 + ("utilisation",), DELETE)], "B1).utilisation", "None", "critical_temperature_C",
-      id="member-utilisation-and-critical-temperature"),
+      id="member-utilisation-and-critical-temperature", marks=MISSING_SHOWN_AS_ABSENT),
     P("nominal", [(M0 + ("thickness_mm",), DELETE)], "B1).thickness_mm", "None", "missing",
       id="member-thickness-of-protected"),
     P("nominal", [(("fire", "duration_min"), DELETE)], "fire.duration_min", "None", "missing", id="fire-duration"),
@@ -330,7 +330,8 @@ for _v in (0.0, -5.0):
         P("nominal", [(M0 + ("thickness_mm",), _v)], "B1).thickness_mm", repr(_v), "> 0", id=f"thickness-{_s}"),
         P("nominal", [(M0 + ("section_factor_per_m",), _v)], "B1).section_factor_per_m", repr(_v), "> 0",
           id=f"section-factor-{_s}"),
-        P("nominal", [(("fire", "duration_min"), _v)], "fire.duration_min", repr(_v), "> 0", id=f"duration-{_s}"),
+        P("nominal", [(("fire", "duration_min"), _v)], "fire.duration_min", repr(_v), ">= 1 and <= 1440 [min]",
+          id=f"duration-{_s}"),
         P("nominal", [(("materials", "board", "density"), _v * 160)], "materials.board.density", repr(_v * 160),
           ">= 1", id=f"material-density-{_s}"),
         P("nominal", [(("materials", "board", "conductivity"), _v / 25)], "materials.board.conductivity",
@@ -346,7 +347,7 @@ for _v in (0.0, -5.0):
     ]
 NONPOSITIVE += [
     P("nominal", [(M1 + ("shadow_factor",), 0.0)], "T1).shadow_factor", "0.0", "> 0", id="shadow-factor-zero"),
-    P("nominal", [(M0 + ("required_minutes",), -30.0)], "B1).required_minutes", "-30.0", "> 0",
+    P("nominal", [(M0 + ("required_minutes",), -30.0)], "B1).required_minutes", "-30.0", ">= 1 and <= 1440 [min]",
       id="required-minutes-negative"),
     P("nominal", [(M0 + ("utilisation",), DELETE), (M0 + ("critical_temperature_C",), -100.0)],
       "B1).critical_temperature_C", "-100.0", "> 20", id="critical-temperature-negative"),
@@ -502,8 +503,11 @@ EXCLUSIVE = [
       id="thickness-on-bare-member"),
     P("nominal", [(M0 + ("shadow_factor",), 0.8)], "B1).shadow_factor", "0.8", "bare steel only",
       id="shadow-factor-on-protected-member"),
-    P("nominal", [(M1 + ("kind",), "column"), (M1 + ("laterally_restrained",), True)],
-      "T1).laterally_restrained", "True", "beams only", id="laterally-restrained-on-column"),
+    P("nominal", [(M1 + ("kind",), "column"), (M1 + ("laterally_restrained",), True),
+                  (M1 + ("utilisation",), DELETE), (M1 + ("critical_temperature_C",), 500.0)],
+      "T1).laterally_restrained", "True", "beams only", id="laterally-restrained-on-column",
+      marks=pytest.mark.xfail(strict=True, reason="reported: laterally_restrained on a column is no longer "
+                                                   "refused (rule removed with the resistance check)")),
     P("nominal", [(("fire", "file"), "x.csv")], "fire.file", "'x.csv'", 'curve = "table"',
       id="file-with-standard-curve"),
 ]
@@ -558,8 +562,10 @@ SCOPE = [
     ("thermal-inertia-below-100", [(("compartment", "thermal_inertia"), 80.0)], "thermal inertia b", 80.0),
     ("thermal-inertia-above-2200", [(("compartment", "thermal_inertia"), 2500.0)], "thermal inertia b", 2500.0),
     # q_t,d = q_f,d A_f / A_t with A_f = 100 m2 and A_t = 320 m2
-    ("fire-load-below-50", [(("fire_load",), {"design_MJ_m2": 120.0})], "fire load q_t,d", 120.0 * 100 / 320),
-    ("fire-load-above-1000", [(("fire_load",), {"design_MJ_m2": 4000.0})], "fire load q_t,d", 4000.0 * 100 / 320),
+    ("fire-load-below-50", [(("fire_load",), {"design_MJ_m2": 120.0, "growth": "medium"})], "fire load q_t,d",
+     120.0 * 100 / 320),
+    ("fire-load-above-1000", [(("fire_load",), {"design_MJ_m2": 4000.0, "growth": "medium"})], "fire load q_t,d",
+     4000.0 * 100 / 320),
     ("floor-area-above-500", [(("compartment", "floor_area_m2"), 600.0), (("compartment", "boundary_area_m2"), 1500.0),
                               (OPEN, {"width_m": 4.0, "height_m": 1.5, "count": 12})],
      "compartment.floor_area_m2", 600.0),
@@ -659,16 +665,17 @@ CSV_CASES = [
                  "1500", id="temperature-too-high"),
     pytest.param("time_min,temperature_C\n0,20\n30\n90,300\n", {}, "x.csv row 3", "'30'", "two columns",
                  id="row-one-column"),
+    # a file's own text is never quoted (its length is): the error line cannot carry a file's contents
     pytest.param("time_s,temperature_C\n0,20\n1800,800\n5400,300\n", {}, "x.csv header",
-                 "'time_s,temperature_C'", "time_min,temperature_C", id="wrong-header"),
-    pytest.param("0,20\n30,800\n90,300\n", {}, "x.csv header", "'0,20'", "time_min,temperature_C",
-                 id="no-header"),
+                 "'<20 characters, not shown>'", "must be time_min,temperature_C", id="wrong-header"),
+    pytest.param("0,20\n30,800\n90,300\n", {}, "x.csv header", "'<4 characters, not shown>'",
+                 "must be time_min,temperature_C", id="no-header"),
     pytest.param("", {}, "fire.file", "x.csv", "empty", id="empty-file"),
     pytest.param("time_min,temperature_C\n0,20\n", {}, "fire.file", "x.csv", "two data rows",
                  id="one-data-row"),
     pytest.param(None, {}, "fire.file", "x.csv", "existing", id="missing-file"),
-    pytest.param("time_min,temperature_C\n0,20\n30," + "8" * 200_000 + "\n", {}, "fire.file", "x.csv",
-                 "field larger than", id="cell-beyond-csv-field-limit"),
+    pytest.param("time_min,temperature_C\n0,20\n30," + "8" * 200_000 + "\n", {}, "x.csv row 3 temperature_C",
+                 "'<200000 characters, not shown>'", "must be a finite number", id="cell-beyond-csv-field-limit"),
     pytest.param(TABLE_CSV, {"duration_min": 120.0}, "fire.duration_min", "120.0", "90 min",
                  id="duration-longer-than-table"),
     pytest.param(TABLE_CSV, {"file": "missing.csv"}, "fire.file", "missing.csv", "existing",
@@ -758,10 +765,11 @@ ABSURD = [
       id="section-factor-huge"),
     P("nominal", [(M0 + ("thickness_mm",), 10 ** 30)], "thickness_mm", str(10 ** 30), None,
       id="thickness-huge-integer"),
-    P("nominal", [(M0 + ("thickness_mm",), 10 ** 400)], "thickness_mm", "1" + "0" * 400, "64 bits",
+    # quoted short: the first 77 digits and "..."
+    P("nominal", [(M0 + ("thickness_mm",), 10 ** 400)], "thickness_mm", "1" + "0" * 76 + "...: ", "64 bits",
       id="thickness-integer-beyond-64-bits"),
-    P("nominal", [(("code",), {"max_time_step_bare_s": 10 ** 400})], "code.max_time_step_bare_s", "1" + "0" * 400,
-      "64 bits", id="code-integer-beyond-64-bits"),
+    P("nominal", [(("code",), {"max_time_step_bare_s": 10 ** 400})], "code.max_time_step_bare_s",
+      "1" + "0" * 76 + "...: ", "64 bits", id="code-integer-beyond-64-bits"),
     P("nominal", [(M0 + ("thickness_mm",), 1e-6)], "B1).thickness_mm", "1e-06", "too thin for the time step",
       id="thickness-a-nanometre"),
     P("nominal", [(M0 + ("thickness_mm",), float("inf"))], "B1).thickness_mm", "inf", "finite",
@@ -851,13 +859,23 @@ def test_malformed_toml(tmp_path, text, allowed):
     assert_refused(write_case(tmp_path, text=text, name="broken.toml"), "case file", "'broken.toml'", allowed)
 
 
-def test_case_file_does_not_exist(tmp_path):
-    assert_refused(tmp_path / "nowhere.toml", "case file", "nowhere.toml", "existing")
+def test_case_file_does_not_exist(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    assert_refused("nowhere.toml", "case file", "'nowhere.toml'", "must be an existing TOML file")
 
 
-def test_case_file_is_a_directory(tmp_path):
+def test_case_file_is_a_directory(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
     (tmp_path / "dir.toml").mkdir()
-    assert_refused(tmp_path / "dir.toml", "case file", "dir.toml", "existing")
+    assert_refused("dir.toml", "case file", "'dir.toml'", "must be an existing TOML file")
+
+
+@pytest.mark.xfail(strict=True, reason="reported: a long path is shortened from its end, so the message loses the "
+                                       "name of the file it refuses")
+def test_case_file_named_in_a_long_path(tmp_path):
+    deep = tmp_path / ("project-folder-" * 6) / "calculations"
+    deep.mkdir(parents=True)
+    assert_refused(deep / "nowhere.toml", "case file", "nowhere.toml", "must be an existing TOML file")
 
 
 def test_duplicate_member_names(tmp_path):
@@ -888,15 +906,15 @@ def test_errors_after_loading_name_the_schedule_row(tmp_path):
     data = edited("nominal", (("member",), DELETE))
     data["members_file"] = "sched.csv"
     (tmp_path / "sched.csv").write_text(
-        "name,section_factor_per_m,utilisation,protection,thickness_mm\n"
-        "P1,150,0.5,board,15\n"
-        "P2,150,0.5,board,0.001\n", encoding="utf-8")
+        "name,kind,section_factor_per_m,utilisation,protection,thickness_mm\n"
+        "P1,tension,150,0.5,board,15\n"
+        "P2,tension,150,0.5,board,0.001\n", encoding="utf-8")
     assert_refused(write_case(tmp_path, data), "sched.csv row 3 (P2).thickness_mm", "0.001",
                    "too thin for the time step")
     (tmp_path / "sched.csv").write_text(
-        "name,section_factor_per_m,utilisation\n"
-        "T1,100,0.5\n"
-        "T2,1000,0.5\n", encoding="utf-8")
+        "name,kind,section_factor_per_m,utilisation\n"
+        "T1,tension,100,0.5\n"
+        "T2,tension,1000,0.5\n", encoding="utf-8")
     data["code"] = {"steel_density_kg_m3": 1000.0, "alpha_c_standard": 500.0}
     assert_refused(write_case(tmp_path, data), "sched.csv row 3 (T2).section_factor_per_m", 1000.0,
                    "too large for the time step")

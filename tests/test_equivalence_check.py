@@ -3,14 +3,13 @@
 import copy
 import json
 import math
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+import cli_run
 import steelfire
 from steelfire.inputs.case import case_from_dict
 
@@ -21,7 +20,7 @@ BASE = {
     "title": "equivalence test compartment (invented)",
     "compartment": {"floor_area_m2": 200.0, "height_m": 3.0, "boundary_area_m2": 640.0, "thermal_inertia": 1200.0,
                     "opening": [{"width_m": 2.0, "height_m": 1.5, "count": 6}]},
-    "fire_load": {"characteristic_MJ_m2": 600.0, "growth": "medium"},
+    "fire_load": {"characteristic_MJ_m2": 600.0, "occupancy_factor": 1.0, "measures_factor": 1.0, "growth": "medium"},
     "fire": {"curve": "parametric", "duration_min": 240.0},
     "analysis": {"time_step_s": 5.0, "standard_horizon_min": 240.0},
     "materials": {"board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0}},
@@ -42,16 +41,22 @@ def test_identity_standard_fire_equal_temperature_is_duration():
     # so the standard fire reaches the same temperature at 75 min (identity; within one 5 s step)
     d = copy.deepcopy(BASE)
     d["fire"] = {"curve": "standard", "duration_min": 75.0}
+    del d["member"][0]["required_minutes"]
     res = analyse(d)
     p1 = res.members[0]
     assert p1.equivalence["equal_temperature_min"] == pytest.approx(75.0, abs=5.0 / 60.0)
+    # a member with a required period is judged under a nominal fire at that period: its peak is the one
+    # at 60 min, reached by the standard fire at 60 min
+    d["member"][0]["required_minutes"] = 60
+    p1 = analyse(d).members[0]
+    assert p1.equivalence["equal_temperature_min"] == pytest.approx(60.0, abs=5.0 / 60.0)
 
 
 def test_annex_f_and_cib_per_member_kind():
     res = analyse(BASE)
     p1, b1 = res.members
     fire = res.fire
-    # Annex F Table F.2 (k_c): 1.0 protected, 13.7 O bare; hand: O = 18 sqrt(1.5) / 640 = 0.034446
+    # EN 1991-1-2 Table F.1 (k_c, from memory): 1.0 protected, 13.7 O bare; hand: O = 18 sqrt(1.5) / 640 = 0.034446
     o = 18 * math.sqrt(1.5) / 640
     assert fire.opening_factor_m05 == pytest.approx(o)
     assert p1.equivalence["annex_f_k_c"] == 1.0
@@ -76,7 +81,7 @@ def test_annex_f_hand_calculation_in_the_chain():
     # w_f = (6/3)^0.3 (0.62 + 90 (0.31)^4 / 1) = 1.231144 x (0.62 + 0.831168) = 1.786565
     wf = 2 ** 0.3 * (0.62 + 90 * 0.31 ** 4)
     assert f["w_f"] == pytest.approx(wf, rel=1e-5)
-    # k_b = 0.055 (720 <= b = 1200 <= 2500, Table F.1); t_e = 701.39 x 0.055 x 1.786565 = 68.92 min
+    # k_b = 0.055 (720 <= b = 1200 <= 2500, EN 1991-1-2 Table F.2, from memory); t_e = 701.39 x 0.055 x 1.786565 = 68.92 min
     assert res.members[0].equivalence["annex_f_min"] == pytest.approx(qfd * 0.055 * wf, abs=0.01)
 
 
@@ -95,8 +100,7 @@ def test_unconservative_routes_and_meets_required():
 
 @pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
 def test_json_equivalence_keys_on_bundled_cases(case):
-    r = subprocess.run([sys.executable, "-m", "steelfire", "check", str(case), "--json"],
-                       capture_output=True, text=True, cwd=ROOT)
+    r = cli_run.main("check", case, "--json")
     doc = json.loads(r.stdout)
     for m in doc["members"]:
         e = m["equivalence"]

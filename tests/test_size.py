@@ -3,19 +3,17 @@
 import copy
 import csv
 import json
-import subprocess
-import sys
 from pathlib import Path
 
-import numpy as np
 import pytest
 
+import cli_run
 import twins
-import steelfire
-from steelfire.chain.analysis import analyse, size, time_grid
-from steelfire.inputs.case import case_from_dict
+from steelfire.chain.analysis import analyse
+from steelfire.chain.sizing import size
+from steelfire.codevalues import DEFAULTS
 from steelfire.errors import InputError
-from steelfire.models.fire import nominal
+from steelfire.inputs.case import case_from_dict
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -23,7 +21,8 @@ BASE = {
     "title": "sizing test compartment (invented)",
     "compartment": {"floor_area_m2": 120.0, "height_m": 3.0, "boundary_area_m2": 372.0, "thermal_inertia": 1500.0,
                     "opening": [{"width_m": 1.2, "height_m": 2.1, "count": 2}, {"width_m": 1.5, "height_m": 1.2, "count": 4}]},
-    "fire_load": {"characteristic_MJ_m2": 1824.0, "measures_factor": 0.5694, "growth": "slow"},
+    "fire_load": {"characteristic_MJ_m2": 1824.0, "occupancy_factor": 1.0, "measures_factor": 0.5694,
+                  "growth": "slow"},
     "fire": {"curve": "parametric", "duration_min": 360.0},
     "analysis": {"time_step_s": 5.0, "standard_horizon_min": 240.0},
     "materials": {"board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0,
@@ -117,8 +116,9 @@ def test_section_from_catalogue_and_shadow_factor():
     # IPE 300 profile 4 sides: 1.16 m2/m / 53.8 cm2 = 215.6 1/m (handbook values, from memory)
     assert b.section_factor_per_m == pytest.approx(215.6, rel=0.01)
     # shadow factor, EN 1993-1-2 eq (4.26b): box / profile = 2 (0.3 + 0.15) / 1.16 = 0.776; eq (4.26a): 0.9 x that
-    assert b.shadow_factor_natural == pytest.approx(0.9 / 1.16, rel=0.01)
-    assert b.shadow_factor_nominal == pytest.approx(0.9 * 0.9 / 1.16, rel=0.01)
+    assert b.i_section and b.shadow_ratio == pytest.approx(0.9 / 1.16, rel=0.01)
+    assert b.shadow_factor_in(False, DEFAULTS) == pytest.approx(0.9 / 1.16, rel=0.01)
+    assert b.shadow_factor_in(True, DEFAULTS) == pytest.approx(0.9 * 0.9 / 1.16, rel=0.01)
 
 
 @pytest.mark.parametrize("change,field", [
@@ -165,11 +165,14 @@ def test_assessed_range_warnings():
     assert "outside its assessed range 40-300 1/m" in w
 
 
-def run(*args, cwd=ROOT):
-    return subprocess.run([sys.executable, "-m", "steelfire", *args], capture_output=True, text=True, cwd=cwd)
+@pytest.fixture
+def run(monkeypatch):
+    """``steelfire ARGS`` in-process, from the repository folder (relative case paths)."""
+    monkeypatch.chdir(ROOT)
+    return cli_run.main
 
 
-def test_size_cli_json_and_csv(tmp_path):
+def test_size_cli_json_and_csv(tmp_path, run):
     out = tmp_path / "sched.csv"
     r = run("size", "cases/office_floor.toml", "--json", "--csv", str(out))
     assert r.returncode in (0, 1), r.stderr
@@ -184,7 +187,7 @@ def test_size_cli_json_and_csv(tmp_path):
     assert not list(tmp_path.glob(".*part"))
 
 
-def test_size_exit_zero_when_all_achievable(tmp_path):
+def test_size_exit_zero_when_all_achievable(tmp_path, run):
     text = (ROOT / "cases" / "office_bay.toml").read_text()
     p = tmp_path / "c.toml"
     p.write_text(text)
@@ -200,21 +203,26 @@ def _schedule_case(tmp_path, csv_text):
     return tmp_path / "c.toml"
 
 
+# schedule rows default to kind = "beam"; these are held laterally so that eq (4.22) applies to them
 @pytest.mark.parametrize("csv_text,needle", [
-    ("name,section_factor_per_m,utilisation\nA,150,0.5\nB,abc,0.5\n", "s.csv row 3 column section_factor_per_m = 'abc'"),
+    ("name,section_factor_per_m,utilisation,laterally_restrained\nA,150,0.5,true\nB,abc,0.5,true\n",
+     "s.csv row 3 column section_factor_per_m = 'abc'"),
     ("name,section_factor_per_m,utilisaton\nA,150,0.5\n", "s.csv header = 'utilisaton'"),
-    ("name,section_factor_per_m,utilisation\nA,150,0.5\nB,-5,0.5\n", "s.csv row 3 (B).section_factor_per_m = -5.0"),
-    ("name,section_factor_per_m,utilisation\nA,150,0.5\nA,120,0.5\n", "s.csv row 3 (A).name = 'A'"),
-    ("name,section_factor_per_m,utilisation,protection\nA,150,0.5,nothing\n", "s.csv row 2 (A).protection = 'nothing'"),
+    ("name,section_factor_per_m,utilisation,laterally_restrained\nA,150,0.5,true\nB,-5,0.5,true\n",
+     "s.csv row 3 (B).section_factor_per_m = -5.0"),
+    ("name,section_factor_per_m,utilisation,laterally_restrained\nA,150,0.5,true\nA,120,0.5,true\n",
+     "s.csv row 3 (A).name = 'A'"),
+    ("name,section_factor_per_m,utilisation,protection,laterally_restrained\nA,150,0.5,nothing,true\n",
+     "s.csv row 2 (A).protection = 'nothing'"),
 ])
-def test_schedule_import_errors(tmp_path, csv_text, needle):
+def test_schedule_import_errors(tmp_path, run, csv_text, needle):
     r = run("size", str(_schedule_case(tmp_path, csv_text)), "--csv", str(tmp_path / "o.csv"))
     assert r.returncode == 2 and r.stdout == ""
     assert r.stderr.count("\n") == 1 and needle in r.stderr, r.stderr
     assert not (tmp_path / "o.csv").exists()
 
 
-def test_check_needs_thickness_size_does_not(tmp_path):
+def test_check_needs_thickness_size_does_not(tmp_path, run):
     c = _schedule_case(tmp_path, "name,section,encasement,critical_temperature_C,protection,required_minutes\n"
                                  "A,IPE 300,box,560,generic-board-gypsum,60\n")
     r = run("check", str(c))
@@ -224,7 +232,7 @@ def test_check_needs_thickness_size_does_not(tmp_path):
     assert json.loads(r.stdout)["members"][0]["sizing"]["chosen_mm"] in (12.5, 15.0, 20.0, 25.0, 30.0)
 
 
-def test_csv_never_overwrites_an_input(tmp_path):
+def test_csv_never_overwrites_an_input(tmp_path, run):
     for target in ("cases/office_floor_schedule.csv", "cases/office_floor.toml"):
         before = (ROOT / target).read_bytes()
         r = run("size", "cases/office_floor.toml", "--csv", target)

@@ -1,9 +1,15 @@
 """Each pitfall named in the design notes raises its warning (and only where it applies)."""
 
 import copy
+from pathlib import Path
+
+import pytest
 
 import steelfire
+from steelfire.errors import InputError
 from steelfire.inputs.case import case_from_dict
+
+ROOT = Path(__file__).resolve().parents[1]
 
 BASE = {
     "title": "warning test (invented)",
@@ -40,18 +46,32 @@ def test_regime_boundary_warning():
     assert has(warnings_of(d), "Annex A regime boundary")
 
 
-def test_eq_4_22_on_columns_and_unrestrained_beams():
-    for change in ({"kind": "column", "laterally_restrained": None}, {"laterally_restrained": False}):
+def test_eq_4_22_refused_for_columns_and_unrestrained_beams():
+    # EN 1993-1-2 4.2.4: eq (4.22) holds for members without instability; a column or a laterally
+    # unrestrained beam given only a utilisation is refused (its resistance or a critical temperature is needed)
+    for change, what in (({"kind": "column", "laterally_restrained": None}, "a column"),
+                         ({"laterally_restrained": False}, "a laterally unrestrained beam")):
         d = copy.deepcopy(BASE)
         d["member"][0].update(change)
         d["member"][0] = {k: v for k, v in d["member"][0].items() if v is not None}
-        assert has(warnings_of(d), "eq (4.22) holds for members without instability")
+        with pytest.raises(InputError) as e:
+            case_from_dict(d)
+        assert str(e.value).startswith("member[1] (R).utilisation = 0.5: EN 1993-1-2 eq (4.22) holds only for "
+                                       f"members without instability; {what} needs its resistance")
+        assert str(e.value).endswith("or give critical_temperature_C")
+
+
+def test_critical_temperature_given_for_a_column_is_flagged():
     d = copy.deepcopy(BASE)
     d["member"][0]["kind"] = "column"
     d["member"][0].pop("laterally_restrained")
     d["member"][0].pop("utilisation")
-    d["member"][0]["critical_temperature_C"] = 500.0  # given by the engineer: no warning
-    assert not has(warnings_of(d), "eq (4.22) holds")
+    d["member"][0]["critical_temperature_C"] = 500.0  # given by the engineer: used, and flagged
+    ws = warnings_of(d)
+    assert not has(ws, "eq (4.22) holds")
+    assert has(ws, "Critical temperature given by the user (not checked by steelfire) for R: it must come from "
+                   "the member's buckling resistance (EN 1993-1-2 4.2.3).")
+    assert not has(warnings_of(BASE), "Critical temperature given by the user")
 
 
 def test_still_heating_at_end_of_fire():
@@ -61,7 +81,7 @@ def test_still_heating_at_end_of_fire():
 
 
 def test_burnout_peak_rising_with_thickness_warning():
-    res = steelfire.analyse(steelfire.load_case("cases/archive_room.toml"), histories=False)
+    res = steelfire.analyse(steelfire.load_case(ROOT / "cases" / "archive_room.toml"), histories=False)
     assert has(res.warnings, "Burnout peak rises with thickness for T1-HANGER")
     assert not has(res.warnings, "Burnout peak rises with thickness for B1")
 
@@ -73,4 +93,4 @@ def test_out_of_scope_stamped():
     d["analysis"] = {"allow_out_of_scope": True}
     res = steelfire.analyse(case_from_dict(d), histories=False)
     assert res.out_of_scope and res.warnings[0].startswith("OUT OF SCOPE")
-    assert res.to_dict()["out_of_scope"]
+    assert steelfire.document(res)["out_of_scope"]
