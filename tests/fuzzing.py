@@ -220,6 +220,8 @@ def small_case(data: dict) -> dict:
     analysis = data.setdefault("analysis", {})
     analysis["time_step_s"] = 5.0
     need = max([60.0] + [float(m.get("required_minutes", 0)) for m in data.get("member", [])])
+    if "members_file" in data:
+        need = 120.0                 # the bundled schedule's periods go up to R120
     analysis["standard_horizon_min"] = min(120.0, need)
     for m in data.get("member", []):
         if m.get("required_minutes", 0) > 120:
@@ -751,13 +753,18 @@ class FuzzTimeout(BaseException):
 
 @contextlib.contextmanager
 def alarm(seconds: float):
+    """Raise :class:`FuzzTimeout` after ``seconds``; yields a list that holds True once the alarm has fired
+    (inside a numba kernel the exception comes out as a SystemError, which the CLI reports as exit 3)."""
+    fired = []
+
     def _raise(signum, frame):
+        fired.append(True)
         raise FuzzTimeout()
 
     old = signal.signal(signal.SIGALRM, _raise)
     signal.setitimer(signal.ITIMER_REAL, seconds)
     try:
-        yield
+        yield fired
     finally:
         signal.setitimer(signal.ITIMER_REAL, 0)
         signal.signal(signal.SIGALRM, old)
@@ -846,7 +853,7 @@ def run_cli(argv, cwd: Path, timeout_s: float = RUN_TIMEOUT_S) -> tuple:
     here = os.getcwd()
     os.chdir(cwd)
     try:
-        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err), alarm(timeout_s):
+        with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err), alarm(timeout_s) as fired:
             try:
                 code = cli.main(list(argv))
             except FuzzTimeout:
@@ -854,6 +861,8 @@ def run_cli(argv, cwd: Path, timeout_s: float = RUN_TIMEOUT_S) -> tuple:
             except BaseException as exc:  # noqa: BLE001 - anything out of main is a finding
                 code = f"raised {type(exc).__name__}"
                 err.write("".join(traceback.format_exception(exc)))
+            if fired:
+                code = "timeout"
     finally:
         os.chdir(here)
     return code, out.text(), err.text()
