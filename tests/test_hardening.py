@@ -259,6 +259,9 @@ def test_defect4_interrupt_exits_130_and_leaves_outputs_untouched(tmp_path):
     # the run and no temporary files.
     # A run of 2000 protected members under a 24 h standard fire at 1 s (about 7e8 member-steps, inside
     # the 1e10 budget; about 10 s of CPU) is interrupted once it has used 3 s of CPU (past the imports).
+    # the kernels compiled and cached first (in a fresh clone the first run compiles them)
+    code, _, err = run(["check", CASES / "warehouse_standard.toml", "--json"], tmp_path)
+    assert code in (0, 1), err
     rows = ["name,kind,section_factor_per_m,utilisation,laterally_restrained,protection,thickness_mm"]
     rows += [f"B{i},beam,150,0.5,true,board-a,20" for i in range(2000)]
     (tmp_path / "s.csv").write_text("\n".join(rows) + "\n")
@@ -324,9 +327,12 @@ def test_defect4_read_only_install_puts_the_numba_cache_in_a_user_folder(tmp_pat
         env.update(HOME=str(home), TMPDIR=str(tmp), PYTHONPATH=str(install), PYTHONDONTWRITEBYTECODE="1")
         code = ("import sys, steelfire.cli; assert steelfire.__file__.startswith(sys.argv[1]), steelfire.__file__; "
                 "sys.exit(steelfire.cli.main(['check', sys.argv[2], '--json']))")
-        r = subprocess.run([sys.executable, "-c", code, str(install), str(base / "case.toml")], cwd=str(tmp),
-                           env=env, capture_output=True, text=True, timeout=600,
-                           preexec_fn=_without_file_override if root else None)
+        try:
+            r = subprocess.run([sys.executable, "-c", code, str(install), str(base / "case.toml")], cwd=str(tmp),
+                               env=env, capture_output=True, text=True, timeout=600,
+                               preexec_fn=_without_file_override if root else None)
+        except subprocess.SubprocessError as exc:   # prctl refused (no CAP_SETPCAP): cannot simulate here
+            pytest.skip(f"cannot run without the file-override capabilities: {exc}")
         assert r.returncode in (0, 1), r.stderr[-3000:]
         doc = json.loads(r.stdout)
         assert [m["name"] for m in doc["members"]] == ["M1-B01", "M1-C01", "M1-T01"]
