@@ -78,7 +78,7 @@ def main(argv=None) -> int:
     for name in ("tracebacks", "exit codes outside 0/1/2", "exit 2 without one stderr line",
                  "runs writing outside --out", "inputs replaced", "leaks of the outside file", "time-outs"):
         print(f"{name}: {counts[name]}")
-    print(f"traceback files of internal errors: {len(traceback_files)}")
+    print(f"traceback files of internal errors: {len(traceback_files)} (in {work})")
     print(f"failing mutations: {len(failures)}")
     for seed, m, o, problems in failures[:args.show]:
         print(f"- seed {seed}: {'; '.join(problems)}")
