@@ -1,6 +1,7 @@
 """The command line on every bundled case and the JSON contract (DESIGN.md), in-process through
 ``steelfire.cli.main`` (tests/cli_run.py); a handful of tests at the end start a real process."""
 
+import functools
 import json
 import math
 import os
@@ -27,6 +28,14 @@ CONTRACT_FIRE_KEYS = ("curve", "opening_factor_m05", "opening_height_m", "therma
                       "peak_gas_temperature_C", "time_of_peak_gas_min")
 
 
+@functools.lru_cache(maxsize=None)
+def check_json(case):
+    """``steelfire check CASE --json`` in-process, run once per case for the tests of this module:
+    (exit code, stderr, document)."""
+    r = cli_run.main("check", case, "--json")
+    return r.returncode, r.stderr, json.loads(r.stdout) if r.stdout else None
+
+
 def test_there_are_bundled_cases():
     assert len(CASES) >= 3
 
@@ -36,9 +45,8 @@ def test_check_table(case):
     r = cli_run.main("check", case)
     assert r.returncode in (0, 1), r.stderr
     out = r.stdout
-    doc = json.loads(cli_run.main("check", case, "--json").stdout)
-    assert r.returncode == (0 if all(m["passes"] and m["meets_required_period"] is not False
-                                     for m in doc["members"]) else 1)
+    code, _, doc = check_json(case)
+    assert r.returncode == code
     for head in ("critical", "peak steel", "margin", "Annex F", "CIB W14", "equal steel"):
         assert head in out, head
     for m in doc["members"][:3]:
@@ -48,9 +56,8 @@ def test_check_table(case):
 
 @pytest.mark.parametrize("case", CASES, ids=lambda p: p.stem)
 def test_check_json_contract(case):
-    r = cli_run.main("check", case, "--json")
-    assert r.returncode in (0, 1), r.stderr
-    doc = json.loads(r.stdout)
+    code, err, doc = check_json(case)
+    assert code in (0, 1) and err == "", err
     assert isinstance(doc["title"], str)
     fire = doc["fire"]
     assert list(fire)[:len(CONTRACT_FIRE_KEYS)] == list(CONTRACT_FIRE_KEYS)
@@ -71,11 +78,11 @@ def test_check_json_contract(case):
     assert isinstance(doc["code_values"], dict) and doc["code_values"]["alpha_c_natural"] == 35.0
     assert isinstance(doc["warnings"], list)
     ok = all(m["passes"] and m["meets_required_period"] is not False for m in doc["members"])
-    assert r.returncode == (0 if ok else 1)
+    assert code == (0 if ok else 1)
 
 
 def _fire_of(case):
-    return json.loads(cli_run.main("check", ROOT / "cases" / case, "--json").stdout)["fire"]
+    return check_json(ROOT / "cases" / case)[2]["fire"]
 
 
 def test_fire_object_carries_only_its_own_models_keys():
@@ -98,7 +105,7 @@ def test_fire_object_carries_only_its_own_models_keys():
 def test_both_regimes_and_member_kinds_are_covered_by_the_bundled_cases():
     regimes, bare, protected, kinds = set(), 0, 0, set()
     for case in CASES:
-        doc = json.loads(cli_run.main("check", case, "--json").stdout)
+        doc = check_json(case)[2]
         regimes.add(doc["fire"]["regime"])
         for m in doc["members"]:
             kinds.add(m["kind"])
@@ -110,7 +117,7 @@ def test_both_regimes_and_member_kinds_are_covered_by_the_bundled_cases():
 
 def test_time_step_option_changes_the_grid():
     case = ROOT / "cases" / "office_bay.toml"
-    a = json.loads(cli_run.main("check", case, "--json").stdout)
+    a = check_json(case)[2]
     b = json.loads(cli_run.main("check", case, "--json", "--time-step-s", "2.5").stdout)
     assert b["analysis"]["time_step_s"] == 2.5
     for ma, mb in zip(a["members"], b["members"]):
@@ -121,7 +128,7 @@ def test_time_step_option_changes_the_grid():
 def test_python_api_matches_cli():
     case = ROOT / "cases" / "archive_room.toml"
     res = steelfire.analyse(steelfire.load_case(case))
-    doc = json.loads(cli_run.main("check", case, "--json").stdout)
+    doc = check_json(case)[2]
     assert steelfire.document(res)["members"] == doc["members"]
     assert res.members[0].steel_temperature_C.shape == res.fire.time_s.shape
 
@@ -194,7 +201,7 @@ def test_cli_keeps_the_garbage_collector_on():
 def test_plant_room_against_independent_calculation():
     """Gas by a hand restatement of EN 1991-1-2 Annex A, steel by solve_ivp of eq (4.25)'s ODE;
     the tool's JSON must agree within 1 C (gas) and 2 C (peak steel)."""
-    doc = json.loads(cli_run.main("check", ROOT / "cases" / "plant_room.toml", "--json").stdout)
+    doc = check_json(ROOT / "cases" / "plant_room.toml")[2]
     # compartment of cases/plant_room.toml, restated by hand
     af, at, b = 30.0, 137.0, 700.0
     av, heq = 1.8 * 2.2, 2.2

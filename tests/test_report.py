@@ -126,11 +126,23 @@ def parse(html_text):
 
 @pytest.fixture(scope="module")
 def archive(tmp_path_factory):
+    from steelfire.outputs.report import plots
+
     out = tmp_path_factory.mktemp("archive") / "out"
     path = CASES / "archive_room.toml"
     before = sha256(path)
-    case, result, w = run_case(path, out)
+    rendered = []
+    real = plots.render_figures
+
+    def keep(doc, result):  # the figures, kept for the tests of the file layer below
+        rendered.append(real(doc, result))
+        return rendered[-1]
+
+    with pytest.MonkeyPatch.context() as mp:
+        mp.setattr(plots, "render_figures", keep)
+        case, result, w = run_case(path, out)
     return {"out": out, "path": path, "sha_before": before, "case": case, "result": result, "written": w,
+            "figures": rendered[0],
             "doc": json.loads((out / "results.json").read_text(encoding="utf-8")),
             "html": (out / "report.html").read_text(encoding="utf-8")}
 
@@ -325,10 +337,19 @@ def test_failure_in_a_plot_leaves_nothing(tmp_path, monkeypatch, archive):
     assert not (tmp_path / "out").exists() or list((tmp_path / "out").iterdir()) == []
 
 
+def _same_figures(monkeypatch, archive):
+    """The tests of the file layer write the archive run again: its figures are not rendered again."""
+    from steelfire.outputs.report import plots
+
+    monkeypatch.setattr(plots, "render_figures", lambda doc, result: archive["figures"])
+
+
 def test_failure_while_writing_removes_temporaries_and_keeps_old_files(tmp_path, monkeypatch, archive):
     import shutil
 
     import steelfire.outputs.files as output
+
+    _same_figures(monkeypatch, archive)
 
     out = tmp_path / "out"
     shutil.copytree(archive["out"], out)   # the outputs of an earlier run
@@ -383,6 +404,8 @@ def test_failure_inside_write_temp_cleans_its_own_file(tmp_path, monkeypatch):
 def test_failure_during_renames_leaves_only_complete_files(tmp_path, monkeypatch, archive):
     import steelfire.outputs.files as output
 
+    _same_figures(monkeypatch, archive)
+
     out = tmp_path / "out"
     case, result = archive["case"], archive["result"]
     real = output.os.replace
@@ -419,7 +442,7 @@ def test_never_overwrites_the_case_file(tmp_path):
 
 
 def test_without_histories(tmp_path):
-    case, result, w = run_case(CASES / "archive_room.toml", tmp_path / "out", histories=False)
+    case, result, w = run_case(CASES / "warehouse_standard.toml", tmp_path / "out", histories=False)
     out = tmp_path / "out"
     head = next(csv.reader(io.StringIO((out / "histories.csv").read_text("utf-8"))))
     assert head == ["time_min", "gas_C"]
@@ -450,9 +473,9 @@ def _flat(prefix, v, out):
 
 
 def test_sizing_columns_table_and_figure(tmp_path):
-    case = steelfire.load_case(CASES / "archive_room.toml")
+    case = steelfire.load_case(CASES / "warehouse_standard.toml")
     result = steelfire.size(case)
-    write_outputs(result, tmp_path / "out", CASES / "archive_room.toml", command="size", case=case)
+    write_outputs(result, tmp_path / "out", CASES / "warehouse_standard.toml", command="size", case=case)
     out = tmp_path / "out"
     doc = json.loads((out / "results.json").read_text("utf-8"))
     assert doc["run"]["command"] == "size"
