@@ -7,6 +7,7 @@ passes and meets its period, 1 some member does not, 2 bad input, 3 an internal 
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 
 EXIT_OK, EXIT_FAIL, EXIT_INPUT, EXIT_INTERNAL, EXIT_INTERRUPTED = 0, 1, 2, 3, 130
@@ -23,7 +24,9 @@ def _parser():
                 description="Fire resistance of steel members: design fire, steel temperatures, verdicts.",
                 epilog="Caution: simplified code methods (EN 1991-1-2, EN 1993-1-2) within their validity "
                        "limits; results to be verified by a competent fire engineer; national annexes, local "
-                       "codes and the approving authority prevail.")
+                       "codes and the approving authority prevail. Exit codes: 0 every member passes, 1 some "
+                       "member fails or is marginal (within the numerical error), 2 bad input (one line naming the "
+                       "field), 3 an internal error (traceback written to a file), 130 interrupted.")
     from steelfire._version import __version__
 
     p.add_argument("--version", action="version", version=f"steelfire {__version__}")
@@ -151,6 +154,10 @@ def _integer(text, field, lo=0):
     return v
 
 
+#: Most processes of a local dask cluster (--workers): more than the cores only adds memory and start-up.
+MAX_WORKERS = max(2, os.cpu_count() or 1) * 2
+
+
 def _run_sample(args) -> int:
     """``steelfire sample``: the deterministic check of the case, and beside it the statistics over the
     sampled fires (chain.sampling). Exit 1 where a member fails the check or, with a target probability,
@@ -162,7 +169,12 @@ def _run_sample(args) -> int:
     fires = _integer(args.fires, "--fires", 1)
     seed = _integer(args.seed, "--seed", 0)
     workers = _integer(args.workers, "--workers", 1)
+    if workers is not None and workers > MAX_WORKERS:
+        from steelfire.errors import InputError
+
+        raise InputError("--workers", args.workers, f"must be a whole number from 1 to {MAX_WORKERS} (local processes)")
     case = _load(args)
+    sampling.check_budget(case, sampling.sample_spec(case, fires=fires, seed=seed), args.size)  # before any work
     keep = args.out is not None and not args.no_histories
     if args.size:
         from steelfire.chain.sizing import size

@@ -121,7 +121,9 @@ class Setup:
         return len(self.critical_C)
 
 
-def _spec(case, variability, fires, seed) -> V.VariabilitySpec:
+def sample_spec(case, variability=None, fires=None, seed=None) -> V.VariabilitySpec:
+    """The run's :class:`VariabilitySpec`: ``variability`` (a spec or a [variability] table) or the case's,
+    with ``fires`` and ``seed`` overriding its own (the --fires and --seed options)."""
     spec = variability if variability is not None else getattr(case, "variability", None)
     if spec is None:
         raise InputError("variability", None, "is missing; steelfire sample needs a [variability] table")
@@ -657,6 +659,28 @@ def _grid_check(setup: Setup, ev: Evaluated) -> dict:
     return {"fires": done, "largest_peak_difference_C": worst}
 
 
+def check_budget(case, spec, size: bool) -> None:
+    """Refuse, before any work, a run past the member-step budget of one run
+    (:data:`steelfire.chain.analysis.MAX_MEMBER_STEPS`): fires x members x steps of the grid, and with
+    ``size`` at most 2 + ceil(log2(supplied thicknesses)) passes of the protected members in addition."""
+    from steelfire.chain.analysis import MAX_MEMBER_STEPS
+    from steelfire.errors import BudgetError
+
+    n_grid = math.floor(case.fire.duration_min * 60.0 / case.analysis.time_step_s + 1e-9) + 1
+    members = len(case.members)
+    if size:
+        for m in case.members:
+            if m.protected:
+                n_s = max(1, len(case.materials[m.protection].supplied_thicknesses_mm()))
+                members += 2 + math.ceil(math.log2(n_s))
+    steps = float(spec.fires) * members * n_grid
+    if steps > MAX_MEMBER_STEPS:
+        raise BudgetError("--fires", spec.fires,
+                          f"{steps:.3g} member-steps ({spec.fires} fires x {members} member passes x {n_grid} steps) "
+                          f"exceed the limit of {MAX_MEMBER_STEPS:.0e}: use fewer fires, a larger time step or a shorter "
+                          "duration, or split the schedule")
+
+
 # ---- sizing against a target probability ------------------------------------------------------------
 
 def _supplied(case, i, step):
@@ -1009,7 +1033,8 @@ def run(case, fires=None, seed=None, workers=None, scheduler=None, size=False, p
     SampleRun
         ``to_dict()`` is the ``variability`` section of the JSON document.
     """
-    spec = _spec(case, variability, fires, seed)
+    spec = sample_spec(case, variability, fires, seed)
+    check_budget(case, spec, size)
     show = _show_progress(progress)
     timings = {}
     t_start = time.perf_counter()

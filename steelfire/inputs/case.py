@@ -342,7 +342,15 @@ def _refuse_repeated_name(places, members):
 #: Characters refused in any key or text of a case: the C0 and C1 controls and the Unicode line and
 #: paragraph separators (a newline in a name would forge a second error line; ESC reaches the terminal).
 _CONTROL = frozenset([chr(c) for c in range(32)] + [chr(127)] + [chr(c) for c in range(0x80, 0xA0)]
-                     + ["\u2028", "\u2029"])
+                     + ["\u2028", "\u2029"]
+                     # Unicode direction marks, embeddings, overrides and isolates: they reorder the text that
+                     # follows them on a terminal or in the report (a title that reads other than it is)
+                     + ["\u061c", "\u200e", "\u200f"] + [chr(c) for c in range(0x202A, 0x202F)]
+                     + [chr(c) for c in range(0x2066, 0x206A)])
+#: Longest texts [characters]: the title and the [record] lines are one line of a title block.
+_TEXT_LIMITS = {"title": 200, "record.notes": 4000}
+_RECORD_LINE = 200
+_TEXT_DEFAULT = 4096
 #: Texts where a line break (and a tab) is allowed.
 _MULTILINE = ("record.notes", "title")
 
@@ -369,7 +377,11 @@ def _check_tree(data):
             if t is str:
                 bad = [c for c in x if c in _CONTROL and not (at in _MULTILINE and c in "\n\t")]
                 if bad:
-                    raise InputError(at, x, "must not contain control characters (line breaks, escape codes)")
+                    raise InputError(at, x, "must not contain control characters (line breaks, escape codes, "
+                                            "direction overrides)")
+                limit = _TEXT_LIMITS.get(at, _RECORD_LINE if at.startswith("record.") else _TEXT_DEFAULT)
+                if len(x) > limit and not at.startswith("member["):  # members: their own validator's words
+                    raise InputError(at, f"{len(x)} characters", f"must be at most {limit} characters")
             elif t is dict or t is list:
                 stack.append((x, at))
 

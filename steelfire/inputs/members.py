@@ -356,6 +356,8 @@ def _block(rows: MemberRows, materials, code):
         def section_problem(i):
             if section[i] is ABSENT or not isinstance(section[i], (str, dict)):
                 return None
+            if any(not (v is ABSENT or isinstance(v, str)) for v in (exposure[i], encasement[i])):
+                return None  # refused above as "must be a string
             got = sections.get(section[i], _or(exposure[i], "4-sided"), _or(encasement[i], "profile"))
             return got if isinstance(got[1], InputError) else None
 

@@ -119,7 +119,7 @@ def same_file(a: Path, b: Path) -> bool:
             return True
         sa, sb = os.stat(a), os.stat(b)
         return (sa.st_dev, sa.st_ino) == (sb.st_dev, sb.st_ino)
-    except OSError:
+    except (OSError, RuntimeError, ValueError):  # unreadable, a symlink loop, a NUL in the path
         return False
 
 
