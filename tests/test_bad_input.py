@@ -243,12 +243,6 @@ def P(base, changes, field, value, allowed=None, *, id, marks=()):
     return pytest.param(base, changes, field, value, allowed, id=id, marks=marks)
 
 
-#: Behaviour that changed without being on the list of deliberate changes: the expected line is the one
-#: of the release before the restructuring, reported to the lead; strict, so that the fix shows as XPASS.
-MISSING_SHOWN_AS_ABSENT = pytest.mark.xfail(
-    strict=True, reason="reported defect: a missing member value is quoted as ABSENT instead of None")
-
-
 CASE_ARGS = "base, changes, field, value, allowed"
 
 M0 = ("member", 0)      # the protected beam B1
@@ -278,10 +272,10 @@ def test_base_cases_run(tmp_path, base):
 
 MISSING = [
     P("nominal", [(M0 + ("section_factor_per_m",), DELETE)], "B1).section_factor_per_m", "None", "missing",
-      id="member-section-factor", marks=MISSING_SHOWN_AS_ABSENT),
-    P("nominal", [(M0 + ("name",), DELETE)], "member[1].name", "None", "missing", id="member-name", marks=MISSING_SHOWN_AS_ABSENT),
+      id="member-section-factor"),
+    P("nominal", [(M0 + ("name",), DELETE)], "member[1].name", "None", "missing", id="member-name"),
     P("nominal", [(M0 + ("utilisation",), DELETE)], "B1).utilisation", "None", "critical_temperature_C",
-      id="member-utilisation-and-critical-temperature", marks=MISSING_SHOWN_AS_ABSENT),
+      id="member-utilisation-and-critical-temperature"),
     P("nominal", [(M0 + ("thickness_mm",), DELETE)], "B1).thickness_mm", "None", "missing",
       id="member-thickness-of-protected"),
     P("nominal", [(("fire", "duration_min"), DELETE)], "fire.duration_min", "None", "missing", id="fire-duration"),
@@ -505,9 +499,7 @@ EXCLUSIVE = [
       id="shadow-factor-on-protected-member"),
     P("nominal", [(M1 + ("kind",), "column"), (M1 + ("laterally_restrained",), True),
                   (M1 + ("utilisation",), DELETE), (M1 + ("critical_temperature_C",), 500.0)],
-      "T1).laterally_restrained", "True", "beams only", id="laterally-restrained-on-column",
-      marks=pytest.mark.xfail(strict=True, reason="reported: laterally_restrained on a column is no longer "
-                                                   "refused (rule removed with the resistance check)")),
+      "T1).laterally_restrained", "True", "beams only", id="laterally-restrained-on-column"),
     P("nominal", [(("fire", "file"), "x.csv")], "fire.file", "'x.csv'", 'curve = "table"',
       id="file-with-standard-curve"),
 ]
@@ -870,8 +862,6 @@ def test_case_file_is_a_directory(tmp_path, monkeypatch):
     assert_refused("dir.toml", "case file", "'dir.toml'", "must be an existing TOML file")
 
 
-@pytest.mark.xfail(strict=True, reason="reported: a long path is shortened from its end, so the message loses the "
-                                       "name of the file it refuses")
 def test_case_file_named_in_a_long_path(tmp_path):
     deep = tmp_path / ("project-folder-" * 6) / "calculations"
     deep.mkdir(parents=True)

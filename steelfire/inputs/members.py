@@ -322,8 +322,9 @@ def _block(rows: MemberRows, materials, code):
     rule(_first(rows, "kind", lambda v: _text_problem(v, KINDS)))
     rule(_first(rows, "laterally_restrained",
                 lambda v: None if v is ABSENT or type(v) is bool else "must be true or false"))
-    rule(_first_where(rows, lambda i: restrained[i] is not ABSENT and kind_of[i] == "tension", "laterally_restrained",
-                      'does not apply to a tension member'))
+    rule(_first_where(rows, lambda i: restrained[i] is not ABSENT and kind_of[i] != "beam",
+                      "laterally_restrained", "applies to beams only (lateral-torsional buckling, EN 1993-1-2 4.2.3.3)",
+                      value_key="laterally_restrained"))
     rule(_first(rows, "utilisation", lambda v: _number_problem(v, "-", -math.inf, math.inf) or (
         None if v is ABSENT or mu_lo <= v < mu_hi else f"must be >= {mu_lo:g} and < {mu_hi:g} (EN 1993-1-2 eq (4.22))")))
     unit, lo, hi = MEMBER_NUMBERS["critical_temperature_C"]
@@ -428,7 +429,7 @@ def _block(rows: MemberRows, materials, code):
     if problems:
         i, _, (row, key, value, allowed) = min(problems, key=lambda p: (p[0], p[1]))
         where = _label(rows.where(row), name[row] if row < n else None)
-        raise InputError(f"{where}.{key}" if key else where, value, allowed)
+        raise InputError(f"{where}.{key}" if key else where, None if value is ABSENT else value, allowed)
 
     bare_min = code["section_factor_min_bare_per_m"]
     out = []

@@ -411,14 +411,15 @@ def parametric_gas_matrix(time_s, opening_factor_m05, thermal_inertia, total_are
 REGIME_BAND = 0.1
 
 #: What the outputs show of an Annex A fire: the compartment's severity values, then the fire's own.
+#: Equation numbers as this module cites them throughout (from memory of the printed standard).
 QUANTITIES = SEVERITY_QUANTITIES + (
-    Quantity("gamma", "time factor", "Gamma", "-", "EN 1991-1-2 eq (A.2a): (O/b)^2 / (0.04/1160)^2"),
+    Quantity("gamma", "time factor", "Gamma", "-", "EN 1991-1-2 eq (A.2b): (O/b)^2 / (0.04/1160)^2"),
     Quantity("gamma_lim", "time factor, fuel-controlled (times k)", "Gamma_lim", "-",
-             "EN 1991-1-2 eq (A.8), (A.9)"),
-    Quantity("k_factor", "k factor", "k", "-", "EN 1991-1-2 eq (A.9)"),
+             "EN 1991-1-2 eq (A.5)-(A.7), times k of eq (A.8)"),
+    Quantity("k_factor", "k factor", "k", "-", "EN 1991-1-2 eq (A.8)"),
     Quantity("t_lim_min", "fire growth time (Table E.5 growth rate)", "t_lim", "min", "EN 1991-1-2 A.(10)"),
-    Quantity("regime", "fire regime", "", "", "EN 1991-1-2 A.(7), A.(10)"),
-    Quantity("t_max_min", "time of the peak gas temperature", "t_max", "min", "EN 1991-1-2 eq (A.7)", digits=2),
+    Quantity("regime", "fire regime", "", "", "EN 1991-1-2 eq (A.4): fuel-controlled where t_max = t_lim"),
+    Quantity("t_max_min", "time of the peak gas temperature", "t_max", "min", "EN 1991-1-2 eq (A.4)", digits=2),
     Quantity("x_factor", "cooling-phase factor", "x", "-", "EN 1991-1-2 eq (A.11)"),
     Quantity("cooling_rate_C_h", "cooling rate (per hour of t*)", "", "C/h", "EN 1991-1-2 eq (A.11a)-(A.11c)"),
     Quantity("burnout_time_min", "time the gas is back at 20 C", "", "min", "EN 1991-1-2 eq (A.11)", digits=2),
