@@ -71,5 +71,12 @@ def test_json_output_equals_golden(case, command):
     r = cli_run.main(command, case, "--json")
     assert r.stderr == "" and r.returncode in (0, 1), r.stderr
     now = comparable(json.loads(r.stdout))
+    # exit codes (DESIGN.md): check 0 where every member passes and meets its period; size 0 where every
+    # member's protection is achievable
+    if command == "check":
+        ok = all(m["passes"] and m["meets_required_period"] is not False for m in now["members"])
+    else:
+        ok = all(m["sizing"]["achievable"] for m in now["members"])
+    assert r.returncode == (0 if ok else 1)
     want = comparable(json.loads(golden.read_text("utf-8")))
     assert now == want, "\n".join(differences(want, now)) + "\n(a deliberate change: python tests/golden/regenerate.py)"

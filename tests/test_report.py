@@ -510,8 +510,10 @@ def big_case_dict(n):
 
 def test_long_schedule_plots_a_stated_selection(tmp_path):
     from steelfire.inputs.case import case_from_dict
+    from steelfire.outputs.report import plots
 
-    case = case_from_dict(big_case_dict(20), base_dir=CASES)
+    # one member more than the report plots whole
+    case = case_from_dict(big_case_dict(plots.PLOT_ALL_MAX + 1), base_dir=CASES)
     result = steelfire.analyse(case)
     w = write_outputs(result, tmp_path / "out", None, case=case)
     doc = json.loads((tmp_path / "out" / "results.json").read_text("utf-8"))
