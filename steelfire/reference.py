@@ -37,11 +37,16 @@ DESCRIPTIONS = {
         "file": 'curve = "table": a CSV of time_min, temperature_C',
         "convection_coefficient": "alpha_c [W/(m2 K)]; default by curve (code values alpha_c_*)",
         "heat_release_file": 'curve = "localised": a CSV of time_min, heat_release_MW instead of EN 1991-1-2 E.4',
+        "smoothing_s": 'curve = "table": width [s] of a centred moving average applied to the table before use '
+                       "(for jagged measured curves; the filtered curve is what is reported)",
     },
     "analysis": {
         "time_step_s": "time step (bare steel <= 5 s, protected <= 30 s, EN 1993-1-2 4.2.5); default 5",
         "standard_horizon_min": "how long the standard fire is run for times to critical; default 240",
         "allow_out_of_scope": "true: compute outside a method's validity range, every output stamped",
+        "protection_model": '"lumped" (default: EN 1993-1-2 eq (4.27), the conduction model beside it where the '
+                            'fire cools or is tabulated) or "conduction" (the verdicts, histories and sizing of '
+                            "protected members rest on the 1-D conduction model through the protection)",
     },
     "compartment": {
         "floor_area_m2": "A_f", "height_m": "H, floor to ceiling",
