@@ -107,8 +107,9 @@ def changes(name: str):
 DEAD = {
     "annex_f_kc_reinforced_concrete": "no case reaches it: the chain checks steel members only (k_c of Table F.1 "
                                       "for reinforced concrete is never asked for)",
-    "annex_f_kb_general": "no case reaches it: a compartment without thermal_inertia or surfaces is refused "
-                          "('compartment.surface = 0: surface areas must add up ...'), so b is always assessed",
+    "annex_f_kb_general": "no case reaches it: a compartment needs thermal_inertia or surfaces (refused as "
+                          "'compartment.thermal_inertia = None: is missing ...'), so b is always assessed; the "
+                          "value serves the library function equivalence.annex_f_conversion_factor(thermal_inertia=None)",
     "cib_w14_c_general": "no case reaches it: b is always assessed (see annex_f_kb_general)",
 }
 

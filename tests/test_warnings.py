@@ -50,7 +50,8 @@ def test_eq_4_22_refused_for_columns_and_unrestrained_beams():
     # EN 1993-1-2 4.2.4: eq (4.22) holds for members without instability; a column or a laterally
     # unrestrained beam given only a utilisation is refused (its resistance or a critical temperature is needed)
     for change, what in (({"kind": "column", "laterally_restrained": None}, "a column"),
-                         ({"laterally_restrained": False}, "a laterally unrestrained beam")):
+                         ({"laterally_restrained": False}, "a laterally unrestrained beam"),
+                         ({"kind": "other", "laterally_restrained": None}, 'a member of kind "other"')):
         d = copy.deepcopy(BASE)
         d["member"][0].update(change)
         d["member"][0] = {k: v for k, v in d["member"][0].items() if v is not None}

@@ -536,6 +536,9 @@ def _read_compartment(data) -> Compartment:
     if b is not None and surfaces_raw:
         raise InputError("compartment.thermal_inertia", b,
                          "give thermal_inertia or [[compartment.surface]] tables, not both")
+    if b is None and not surfaces_raw:
+        raise InputError("compartment.thermal_inertia", None,
+                         "is missing; give b [J/(m2 s^0.5 K)] or [[compartment.surface]] tables of the linings")
     surfaces = []
     for i, s in enumerate(surfaces_raw):
         where = f"compartment.surface[{i + 1}]"

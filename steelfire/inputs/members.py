@@ -66,6 +66,10 @@ UTILISATION_RANGE = (0.013, 1.0)          # lo <= mu0 < hi, EN 1993-1-2 4.2.4(3)
 MIN_SECTION_FACTOR_PROTECTED_PER_M = 1.0  # Ap/V; bare steel takes code["section_factor_min_bare_per_m"]
 
 
+#: How a refusal names a member that can lose stability, by kind.
+_UNSTABLE_NAMES = {"beam": "laterally unrestrained beam", "other": 'member of kind "other"'}
+
+
 class _Absent:
     """The marker of a key a member row does not give (an absent key, an empty schedule cell)."""
 
@@ -421,7 +425,7 @@ def _block(rows: MemberRows, materials, code):
                 or (kind_of[i] == "beam" and restrained[i] is not True) for i in range(n)]
     rule(_first_where(rows, lambda i: unstable[i] and mu[i] is not ABSENT and not effects[i], "utilisation",
                       lambda i: (f"EN 1993-1-2 eq (4.22) holds only for members without instability; a "
-                                 f"{'laterally unrestrained beam' if kind_of[i] == 'beam' else kind_of[i]} needs its "
+                                 f"{_UNSTABLE_NAMES.get(kind_of[i], kind_of[i])} needs its "
                                  "resistance: give axial_force_kN and/or moment_y_kNm with section, steel_grade and "
                                  + ("lateral_restraint_length_m (or laterally_restrained = true)" if kind_of[i] == "beam"
                                     else "buckling_length_m") + ", or give critical_temperature_C")))
