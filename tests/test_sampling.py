@@ -425,7 +425,8 @@ def test_sampling_needs_the_parametric_curve_and_a_table():
     assert e.value.field == "variability"
 
 
-def test_unreachable_scheduler_is_bad_input():
+def test_unreachable_scheduler_is_bad_input(monkeypatch):
+    monkeypatch.setattr(S, "SCHEDULER_TIMEOUT_S", 2)  # nothing listens on port 9: no need to wait 20 s
     case, var = load()
     with pytest.raises(InputError) as e:
         S.run(case, variability=dict(var, fires=10), scheduler="tcp://127.0.0.1:9", progress=False)

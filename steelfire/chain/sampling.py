@@ -76,6 +76,9 @@ REPORT_FRACTILES = (0.5, 0.8, 0.9, 0.95, 0.99)
 #: Member-fire rows per kernel call: bounds a chunk's memory (about 0.5 kB per row with the gas
 #: matrix and the results) while giving the kernel threads enough rows to share.
 CHUNK_ROWS = 200_000
+#: How long to try to reach a dask scheduler given by --scheduler [s].
+SCHEDULER_TIMEOUT_S = 20
+
 #: Most fires per chunk (two sampling blocks).
 CHUNK_FIRES_MAX = 2 * V.BLOCK_SIZE
 #: Fires whose peaks are recomputed on their own grid (t_max and burnout on it) in every run, to
@@ -515,7 +518,7 @@ class _Executor:
                              "needs dask.distributed installed") from None
         if self.scheduler is not None:
             try:
-                self.client = Client(self.scheduler, timeout=20, set_as_default=False)
+                self.client = Client(self.scheduler, timeout=SCHEDULER_TIMEOUT_S, set_as_default=False)
             except (OSError, TimeoutError, ValueError) as exc:
                 raise InputError("--scheduler", self.scheduler, f"could not connect ({exc})") from None
             n = len(self.client.scheduler_info().get("workers", {}))
