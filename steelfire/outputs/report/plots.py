@@ -149,6 +149,37 @@ def _short(name: str, most: int) -> str:
     return name if len(name) <= most else name[: most - 1] + "…"
 
 
+def _text_width_in(text: str, size_pt: float) -> float:
+    """Width [in] of ``text`` set in the figures' font at ``size_pt``."""
+    from matplotlib.textpath import TextPath
+
+    return TextPath((0, 0), _mpl_text(text), size=size_pt).get_extents().width / 72.0 if text else 0.0
+
+
+def _fit(name, width_in: float, size_pt: float = 8.0) -> str:
+    """A member name cut (with an ellipsis) to the width it has in a figure: a long name must not run
+    into its neighbour's (the tables carry it whole). Returned escaped for matplotlib."""
+    name = str(name)
+    if _text_width_in(name, size_pt) <= width_in:
+        return _mpl_text(name)
+    lo, hi = 0, len(name) - 1  # the longest prefix that fits with its ellipsis
+    while lo < hi:
+        mid = (lo + hi + 1) // 2
+        if _text_width_in(name[:mid] + "…", size_pt) <= width_in:
+            lo = mid
+        else:
+            hi = mid - 1
+    return _mpl_text(name[:lo] + "…")
+
+
+def _tick_names(names) -> list:
+    """Member names as bar labels: side by side they share the axes' width (about FIG_WIDTH_IN - 0.9 in);
+    more than four are set at 30 degrees, each at most 1.6 in long."""
+    n = max(len(names), 1)
+    width = 1.6 if n > 4 else (FIG_WIDTH_IN - 0.9) / n - 0.15
+    return [_fit(m, width) for m in names]
+
+
 def _thin(t, y, keep=(), most=MAX_CURVE_POINTS):
     """At most ``most`` points of a curve for drawing, always keeping the indices in ``keep`` and the ends."""
     import numpy as np
@@ -301,7 +332,7 @@ def steel_temperatures_figure(doc, result, idx, note):
         ax.plot([d["time_of_peak_steel_min"]], [d["peak_steel_temperature_C"]], marker="v", ms=5, color=INK,
                 ls="none", label="peak steel", clip_on=False, zorder=5)
         verdict = "pass" if d["passes"] else "FAIL"
-        ax.set_title(f"{_mpl_text(_short(d['name'], 28 if ncols == 3 else 44))}\n"
+        ax.set_title(f"{_fit(d['name'], (FIG_WIDTH_IN - 0.6) / ncols - 0.2)}\n"
                      f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}", fontsize=8, linespacing=1.3)
         ax.set_xlim(0, t[-1])
         ax.set_ylim(0, ymax)
@@ -335,7 +366,7 @@ def time_equivalence_figure(doc, idx, note):
 
     horizon = doc["analysis"]["standard_horizon_min"]
     members = doc["members"]
-    names = [_mpl_text(members[i]["name"]) for i in idx]
+    names = _tick_names([members[i]["name"] for i in idx])
     x = np.arange(len(idx), dtype=float)
     catalogue = (("annex_f", "annex_f_min", "EN 1991-1-2 Annex F, eq (F.1)", ANNEX_F, None),
                  ("annex_f_small_compartment", "annex_f_small_compartment_min", "Annex F, small compartment eq (F.3)",
@@ -427,7 +458,7 @@ def thickness_figure(doc, idx, note):
     ax = fig.add_subplot()
     x = np.arange(len(idx), dtype=float)
     w = 0.34
-    names = [_mpl_text(doc["members"][i]["name"]) for i in idx]
+    names = _tick_names([doc["members"][i]["name"] for i in idx])
     bars = (("standard_period_mm", "least for the standard period", ANNEX_F, None),
             ("burnout_mm", "least for the design fire (burnout)", EQUAL_T, "////"))
     for j, (key, label, colour, hatch) in enumerate(bars):
