@@ -76,6 +76,11 @@ REPORT_FRACTILES = (0.5, 0.8, 0.9, 0.95, 0.99)
 #: Member-fire rows per kernel call: bounds a chunk's memory (about 0.5 kB per row with the gas
 #: matrix and the results) while giving the kernel threads enough rows to share.
 CHUNK_ROWS = 200_000
+#: Most member-steps of one sampling run: about three minutes of kernel time on a 2-core machine (3.5 ns
+#: per member-step measured by benchmarks/sample_bench.py); a cluster runs it faster, not larger. No
+#: histories are kept, so memory does not grow with it. 100,000 fires x 100 members x 2,161 steps fit.
+MAX_SAMPLE_MEMBER_STEPS = 5e10
+
 #: How long to try to reach a dask scheduler given by --scheduler [s].
 SCHEDULER_TIMEOUT_S = 20
 
@@ -663,10 +668,9 @@ def _grid_check(setup: Setup, ev: Evaluated) -> dict:
 
 
 def check_budget(case, spec, size: bool) -> None:
-    """Refuse, before any work, a run past the member-step budget of one run
-    (:data:`steelfire.chain.analysis.MAX_MEMBER_STEPS`): fires x members x steps of the grid, and with
-    ``size`` at most 2 + ceil(log2(supplied thicknesses)) passes of the protected members in addition."""
-    from steelfire.chain.analysis import MAX_MEMBER_STEPS
+    """Refuse, before any work, a run past :data:`MAX_SAMPLE_MEMBER_STEPS`: fires x members x steps of the
+    grid, and with ``size`` at most 2 + ceil(log2(supplied thicknesses)) passes of the protected members in
+    addition."""
     from steelfire.errors import BudgetError
 
     n_grid = math.floor(case.fire.duration_min * 60.0 / case.analysis.time_step_s + 1e-9) + 1
@@ -677,10 +681,10 @@ def check_budget(case, spec, size: bool) -> None:
                 n_s = max(1, len(case.materials[m.protection].supplied_thicknesses_mm()))
                 members += 2 + math.ceil(math.log2(n_s))
     steps = float(spec.fires) * members * n_grid
-    if steps > MAX_MEMBER_STEPS:
+    if steps > MAX_SAMPLE_MEMBER_STEPS:
         raise BudgetError("--fires", spec.fires,
                           f"{steps:.3g} member-steps ({spec.fires} fires x {members} member passes x {n_grid} steps) "
-                          f"exceed the limit of {MAX_MEMBER_STEPS:.0e}: use fewer fires, a larger time step or a shorter "
+                          f"exceed the limit of {MAX_SAMPLE_MEMBER_STEPS:.0e}: use fewer fires, a larger time step or a shorter "
                           "duration, or split the schedule")
 
 
