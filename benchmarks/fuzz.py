@@ -59,6 +59,7 @@ def main(argv=None) -> int:
         counts["inputs replaced"] += bool(o.inputs_changed)
         counts["leaks of the outside file"] += o.leaked()
         counts["time-outs"] += o.code == "timeout"
+        counts["steel above the hottest gas (uniform fires, --json runs)"] += any(x.startswith("steel above") for x in problems)
         if o.leaked():
             problems.append("outside file's text printed")
         if problems:
@@ -76,7 +77,8 @@ def main(argv=None) -> int:
           f"{wall / max(1, args.mutations) * 1000:.0f} ms per run")
     print("exit codes: " + ", ".join(f"{k}: {v}" for k, v in sorted(codes.items(), key=lambda kv: str(kv[0]))))
     for name in ("tracebacks", "exit codes outside 0/1/2", "exit 2 without one stderr line",
-                 "runs writing outside --out", "inputs replaced", "leaks of the outside file", "time-outs"):
+                 "runs writing outside --out", "inputs replaced", "leaks of the outside file", "time-outs",
+                 "steel above the hottest gas (uniform fires, --json runs)"):
         print(f"{name}: {counts[name]}")
     print(f"traceback files of internal errors: {len(traceback_files)} (in {work})")
     print(f"failing mutations: {len(failures)}")

@@ -21,6 +21,7 @@ from __future__ import annotations
 import contextlib
 import copy
 import io
+import json
 import math
 import os
 import shutil
@@ -827,7 +828,31 @@ class Outcome:
             out.append(f"written outside --out: {self.outside[:3]}")
         if self.inputs_changed:
             out.append(f"input replaced: {self.inputs_changed}")
+        out += hotter_than_gas(self.code, self.stdout)
         return out
+
+
+#: Fires every member sees alike: no steel may end above the hottest gas of the run (second law; the
+#: guard of issue 15). Localised and travelling fires give each member its own exposure.
+UNIFORM_CURVES = ("standard", "external", "hydrocarbon", "parametric", "table")
+
+
+def hotter_than_gas(code, stdout: str) -> list:
+    """A verdict with a member's steel (either model) above the design fire's hottest gas."""
+    if code not in (0, 1) or not stdout.lstrip().startswith("{"):
+        return []
+    try:
+        doc = json.loads(stdout)
+    except ValueError:
+        return ["--json output is not JSON"]
+    fire = doc.get("fire") or {}
+    gas = fire.get("peak_gas_temperature_C")
+    if fire.get("curve") not in UNIFORM_CURVES or not isinstance(gas, (int, float)):
+        return []
+    bad = [m["name"] for m in doc.get("members", [])
+           if any(isinstance(m.get(k), (int, float)) and m[k] > gas + 0.5
+                  for k in ("peak_steel_temperature_C", "conduction_peak_C"))]
+    return [f"steel above the hottest gas ({gas} C): {bad[:3]}"] if bad else []
 
     def leaked(self) -> bool:
         return SECRET_MARKER in self.stdout or SECRET_MARKER in self.stderr

@@ -176,16 +176,30 @@ def member_details(case, cols, peak_C, nominal_fire):
     c_a = steel.specific_heat(np.minimum(peak_C, 1200.0))
     m_rho, m_cp, m_moist, m_lam20, m_T, m_V, m_N = cols.materials
     k_sh = cols.shadow_factor(nominal_fire)
+    # protected members, as columns: phi of eq (4.27), lambda_p at the peak (per material table), t_v
+    prot = np.array([m.protected for m in members], dtype=bool)
+    r_of = np.asarray(cols.material_row)
+    phi = np.full(len(members), np.nan)
+    lam = np.full(len(members), np.nan)
+    delay_min = np.full(len(members), np.nan)
+    if prot.any():
+        ip = np.flatnonzero(prot)
+        rp = r_of[ip]
+        d_p = np.array([members[i].thickness_mm for i in ip]) * 1e-3
+        am_v = np.array([members[i].section_factor_per_m for i in ip])
+        phi[ip] = m_cp[rp] * m_rho[rp] * d_p * am_v / (c_a[ip] * code["steel_density_kg_m3"])
+        delay_min[ip] = moisture_delay_s(m_moist[rp], m_rho[rp], d_p, m_lam20[rp]) / 60.0
+        for r in np.unique(rp):
+            at = ip[rp == r]
+            n_k = m_N[r]
+            lam[at] = np.interp(np.minimum(peak_C[at], 1200.0), m_T[r, :n_k], m_V[r, :n_k])
     out = []
     for i, m in enumerate(members):
         d = {"specific_heat_at_peak_J_kgK": float(c_a[i])}
         if m.protected:
-            r = cols.material_row[i]
-            d_p = m.thickness_mm * 1e-3
-            d["phi"] = float(m_cp[r] * m_rho[r] * d_p * m.section_factor_per_m / (c_a[i] * code["steel_density_kg_m3"]))
-            n_k = m_N[r]
-            d["conductivity_W_mK"] = float(np.interp(min(peak_C[i], 1200.0), m_T[r, :n_k], m_V[r, :n_k]))
-            d["moisture_delay_min"] = float(moisture_delay_s(m_moist[r], m_rho[r], d_p, m_lam20[r]) / 60.0)
+            d["phi"] = float(phi[i])
+            d["conductivity_W_mK"] = float(lam[i])
+            d["moisture_delay_min"] = float(delay_min[i])
         else:
             d["shadow_factor"] = float(k_sh[i])
             if m.i_section and nominal_fire:
