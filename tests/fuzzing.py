@@ -831,6 +831,9 @@ class Outcome:
         out += hotter_than_gas(self.code, self.stdout)
         return out
 
+    def leaked(self) -> bool:
+        return SECRET_MARKER in self.stdout or SECRET_MARKER in self.stderr
+
 
 #: Fires every member sees alike: no steel may end above the hottest gas of the run (second law; the
 #: guard of issue 15). Localised and travelling fires give each member its own exposure.
@@ -843,8 +846,8 @@ def hotter_than_gas(code, stdout: str) -> list:
         return []
     try:
         doc = json.loads(stdout)
-    except ValueError:
-        return ["--json output is not JSON"]
+    except ValueError:  # --csv - shares standard output
+        return []
     fire = doc.get("fire") or {}
     gas = fire.get("peak_gas_temperature_C")
     if fire.get("curve") not in UNIFORM_CURVES or not isinstance(gas, (int, float)):
@@ -853,9 +856,6 @@ def hotter_than_gas(code, stdout: str) -> list:
            if any(isinstance(m.get(k), (int, float)) and m[k] > gas + 0.5
                   for k in ("peak_steel_temperature_C", "conduction_peak_C"))]
     return [f"steel above the hottest gas ({gas} C): {bad[:3]}"] if bad else []
-
-    def leaked(self) -> bool:
-        return SECRET_MARKER in self.stdout or SECRET_MARKER in self.stderr
 
 
 class _Capture(io.TextIOWrapper):
