@@ -397,3 +397,41 @@ def test_plume_limit_height_by_hand():
     assert float(localised.plume_temperature_C(z, 5e6, 2.0)) == pytest.approx(900.0, abs=1e-9)
     assert float(localised.plume_temperature_C(z + 0.01, 5e6, 2.0)) < 900.0
     assert float(localised.plume_temperature_C(z - 0.01, 5e6, 2.0)) == 900.0
+
+
+@pytest.mark.parametrize("family, shorts", [
+    ("fire_sizes = [0.10, 0.25, 0.50, 1.0]", ["10 % fire", "25 % fire", "50 % fire", "100 % fire"]),
+    ("spread_rate_mm_s = [2.0, 5.0, 12.5]", ["spread 2 mm/s", "spread 5 mm/s", "spread 12.5 mm/s"])])
+def test_travelling_series_names_every_fire_even_when_some_outlast_the_run(family, shorts, tmp_path):
+    from steelfire.chain import fires
+
+    text = (CASES / "open_office_travelling.toml").read_text(encoding="utf-8")
+    text = text.replace("duration_min = 360.0", "duration_min = 120.0")   # the small fires outlast it
+    text = text.replace("fire_sizes = [0.10, 0.25, 0.50, 1.0]", family)
+    path = tmp_path / "case.toml"
+    path.write_text(text, encoding="utf-8")
+    case = steelfire.load_case(path)
+    fire = fires.design_fire(case)
+    assert any("not burnt out" in w for w in fire.warnings)
+    t = np.array([0.0, 600.0, 1800.0])
+    s = fire.series(t)
+    assert s["fire_short_labels"] == shorts
+    assert s["heat_release_MW"].shape == (3, len(shorts))
+    assert s["member_along_m"].tolist() == [6.0, 36.0, 68.0, 36.0]   # the case file's positions
+    # hand calculation, a spread rate s fills the band at s t while t < t_b: Q = RHR_f W s t;
+    # 5 mm/s at t = 600 s: 250e3 x 27 x 0.005 x 600 = 20.25 MW (t_b = q_f,d / RHR_f > 1800 s here)
+    if "spread" in family:
+        assert s["heat_release_MW"][1, 1] == pytest.approx(20.25, rel=1e-12)
+
+
+def test_without_histories_the_fire_figures_are_still_written(tmp_path):
+    # --no-histories: no steel panels (no histories kept), but the heat release and the plan view
+    # need only the fire and the positions
+    path = CASES / "open_office_travelling.toml"
+    case = steelfire.load_case(path)
+    result = steelfire.analyse(case, histories=False)
+    assert plots.member_exposures(result) is None
+    written = write_outputs(result, tmp_path / "out", path, command="check", case=case)
+    figs = written.document["report"]["figures"]
+    assert figs[:2] == ["heat_release", "plan_view"] and "steel_temperatures" not in figs
+    assert (tmp_path / "out" / "fig_plan_view.png").is_file()

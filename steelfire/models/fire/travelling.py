@@ -350,12 +350,12 @@ def design_fire(setup: FireSetup) -> DesignFire:
         fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, spread_rate_m_s=s * 1e-3, allow_out_of_scope=True)
                  for s in o["spread_rate_mm_s"]]
         labels = [fire_label(spread_rate_mm_s=s) for s in o["spread_rate_mm_s"]]
-        short = [fire_label(spread_rate_mm_s=s, short=True) for s in o["spread_rate_mm_s"]]
+        short_labels = [fire_label(spread_rate_mm_s=s, short=True) for s in o["spread_rate_mm_s"]]
     else:
         shares = o.get("fire_sizes") or FIRE_SIZES
         fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, share=a, allow_out_of_scope=True) for a in shares]
         labels = [fire_label(share=a) for a in shares]
-        short = [fire_label(share=a, short=True) for a in shares]
+        short_labels = [fire_label(share=a, short=True) for a in shares]
     positions = [p["along_m"] for p in setup.positions]
     for i, x in enumerate(positions):
         if not 0.0 <= x <= ln:
@@ -377,7 +377,7 @@ def design_fire(setup: FireSetup) -> DesignFire:
     def series(time_s):
         t = as_times_s(time_s)
         return {"heat_release_MW": np.column_stack([f.heat_release_W(t) for f in fires]) / 1e6,
-                "fire_labels": list(labels), "fire_short_labels": list(short),
+                "fire_labels": list(labels), "fire_short_labels": list(short_labels),
                 "member_along_m": np.asarray(positions, dtype=float)}
 
     key = sorted({k for f in fires for k in f.key_times_s(distinct)})

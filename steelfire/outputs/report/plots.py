@@ -55,7 +55,7 @@ FAMILY_STYLES = ((DESIGN_FIRE, "-"), (STEEL, (0, (5, 2))), (EQUAL_T, (0, (1, 1.5
 
 FIG_WIDTH_IN = 7.0
 #: Width [in] of one column of a two-column key of members below a figure, its mark and spacing excluded.
-KEY_COLUMN_IN = (FIG_WIDTH_IN - 0.3) / 2.0 - 0.55
+KEY_COLUMN_IN = (FIG_WIDTH_IN - 0.3) / 2.0 - 0.35
 
 _RC = {
     "font.family": "sans-serif",
@@ -367,11 +367,12 @@ def heat_release_figure(doc, result):
         hq, lq = ax_q.get_legend_handles_labels()
         hl, ll_ = ax_l.get_legend_handles_labels()
         fig.legend(hq + hl, lq + ll_, loc="outside upper center", ncols=2)
-        src = f.get("heat_release_source") or "EN 1991-1-2 E.4"
-        cap = (f"Heat release rate of the localised fire ({src}; from E.4: growth Q = 1 MW (t/t_alpha)^2, plateau "
-               "RHR_f A_fi, linear decay from 70 % of the fire load burnt) and its flame length L_f by EN 1991-1-2 "
-               f"eq (C.1) against time (values of (C.1) below zero drawn as 0), with the ceiling H = "
-               f"{_fmt(h, 'input')} m above the fire source")
+        src = ("the case's table" if f.get("heat_release_source") == "table" else
+               "EN 1991-1-2 E.4: growth Q = 1 MW (t/t_alpha)^2, plateau RHR_f A_fi, linear decay once 70 % of the "
+               "fire load has burnt")
+        cap = (f"Heat release rate of the localised fire ({src}) and its flame length L_f by EN 1991-1-2 eq (C.1) "
+               f"against time (values of (C.1) below zero drawn as 0), with the ceiling H = {_fmt(h, 'input')} m "
+               "above the fire source")
         cap += ("; shaded where the flame reaches the ceiling (L_f >= H: the heat flux of eq (C.4) then "
                 "governs the members near the ceiling)." if np.any(reach) else
                 "; the flame stays below the ceiling throughout (L_f < H).")
