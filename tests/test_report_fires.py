@@ -20,7 +20,6 @@ import matplotlib
 import numpy as np
 import pytest
 from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.lines import Line2D
 from matplotlib.text import Annotation, Text
 
 import steelfire

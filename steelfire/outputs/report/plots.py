@@ -171,7 +171,8 @@ def _text_width_in(text: str, size_pt: float, weight: str = "normal") -> float:
 
     if not text:
         return 0.0
-    return TextPath((0, 0), _mpl_text(text), size=size_pt, prop=FontProperties(weight=weight)).get_extents().width / 72.0
+    path = TextPath((0, 0), _mpl_text(text), size=size_pt, prop=FontProperties(weight=weight))
+    return path.get_extents().width / 72.0
 
 
 def _fit(name, width_in: float, size_pt: float = 8.0, weight: str = "normal") -> str:
@@ -558,7 +559,8 @@ def height_profile_figure(doc, result, idx, note):
              (Line2D([], [], color=CRITICAL, lw=1.1, ls=(0, (4, 2))),
               r"flame tip $L_\mathrm{f}$" + f" = {_fmt(lf)} m, eq (C.1)" + (" (unconfined)" if reaches else "")),
              (Line2D([], [], color=INK, lw=2.0), f"ceiling, H = {_fmt(h, 'input')} m"),
-             (Rectangle((0, 0), 1, 1, color=GAS_TINT), "flame" + (", L_h along the ceiling eq (C.5)" if reaches else "")),
+             (Rectangle((0, 0), 1, 1, color=GAS_TINT),
+              "flame" + (r", $L_\mathrm{h}$ along the ceiling, eq (C.5)" if reaches else "")),
              (Line2D([], [], color=STANDARD, lw=0.9, ls=(0, (6, 2, 1, 2))), "fire axis")]
     fig.legend([a for a, _ in lines], [b for _, b in lines], loc="outside upper center", ncols=3, fontsize=7.5)
     fig.legend([a for a, _ in keyed], [b for _, b in keyed], loc="outside lower center", ncols=2, fontsize=7.5,
@@ -677,7 +679,8 @@ def steel_temperatures_figure(doc, result, idx, note):
         ax.plot([d["time_of_peak_steel_min"]], [d["peak_steel_temperature_C"]], marker="v", ms=5, color=INK,
                 ls="none", label="peak steel", clip_on=False, zorder=5)
         verdict = "pass" if d["passes"] else "FAIL"
-        title = f"{_fit(d['name'], title_in, 8.0, title_weight)}\nmargin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}"
+        title = (f"{_fit(d['name'], title_in, 8.0, title_weight)}\n"
+                 f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}")
         if gov is not None:
             size = short[gov[i]] if gov[i] is not None and gov[i] < len(short) else "governing fire not named"
             title += "\n" + _fit(f"{size} governs", title_in, 8.0, title_weight)
