@@ -120,6 +120,30 @@ def plume_temperature_C(height_m, heat_release_W, diameter_m, convective_fractio
     return np.where(q > 0.0, np.minimum(20.0 + rise, PLUME_MAX_C), 20.0)
 
 
+def plume_limit_height_m(heat_release_W, diameter_m, convective_fraction=CONVECTIVE_FRACTION):
+    """Height [m] above the fire source up to which eq (C.2) of EN 1991-1-2 gives its 900 C limit.
+
+    Setting 20 + 0.25 Q_c^(2/3) (z - z_0)^(-5/3) = 900 C gives
+    z_900 = z_0 + (0.25 Q_c^(2/3) / 880)^(3/5), Q_c = 0.8 Q [W] (C(3)), z_0 by eq (C.3). Below it the
+    plume axis is at 900 C; above it eq (C.2) falls with height. The profile of eq (C.2) has its kink
+    there, so a plotted profile holds this height. Same validity as eq (C.2): D <= 10 m, Q <= 50 MW.
+
+    Examples
+    --------
+    Hand calculation, Q = 5 MW, D = 2 m: Q_c^(2/3) = (4e6)^(2/3) = 25 198.4;
+    0.25 x 25 198.4 / 880 = 7.15864; 7.15864^0.6 = exp(0.6 x 1.96832) = 3.25760;
+    z_900 = 0.46564 + 3.25760 = 3.7232 m.
+
+    >>> round(float(plume_limit_height_m(5e6, 2.0)), 4)
+    3.7232
+    >>> round(float(plume_temperature_C(plume_limit_height_m(5e6, 2.0), 5e6, 2.0)), 9)
+    900.0
+    """
+    q = np.asarray(heat_release_W, dtype=float)
+    rise = PLUME_COEFFICIENT * (convective_fraction * q) ** (2.0 / 3.0) / (PLUME_MAX_C - 20.0)
+    return virtual_origin_m(q, diameter_m) + rise ** 0.6
+
+
 def horizontal_flame_length_m(heat_release_W, ceiling_height_m):
     """Horizontal flame length L_h = 2.9 H (Q_H*)^0.33 - H [m], EN 1991-1-2 eq (C.5), (C.6).
 
@@ -409,7 +433,11 @@ def design_fire(setup: FireSetup) -> DesignFire:
     """A localised fire of EN 1991-1-2 Annex C as a design fire: the heat release of Annex E.4 (or the case's
     table), each member's exposure at its position by :func:`member_exposure` (its gas temperature, or the
     adiabatic surface temperature of its heat flux), alpha_c = 35 W/(m2 K) (C.(10)) and the code's
-    emissivities; the annex's scope (D, Q) enforced unless allow_out_of_scope."""
+    emissivities; the annex's scope (D, Q) enforced unless allow_out_of_scope.
+
+    Its ``series(time_s)`` holds, for the report's figures, the heat release Q [MW] and the flame length
+    L_f of eq (C.1) [m] on the run's grid, and each member's position (``member_distance_m`` r,
+    ``member_height_m`` z, in schedule order)."""
     opts = setup.options
     hr = setup.heat_release
     fl = setup.fire_load
@@ -456,7 +484,9 @@ def design_fire(setup: FireSetup) -> DesignFire:
 
     def series(time_s):
         q = hr.heat_release_W(time_s)
-        return {"heat_release_MW": q / 1e6, "flame_length_m": flame_length_m(q, d)}
+        return {"heat_release_MW": q / 1e6, "flame_length_m": flame_length_m(q, d),
+                "member_distance_m": np.array([r for r, _ in positions], dtype=float),
+                "member_height_m": np.array([z for _, z in positions], dtype=float)}
 
     t_probe = np.linspace(0.0, setup.duration_min * 60.0, 2001)
     q_probe = hr.heat_release_W(t_probe)

@@ -253,6 +253,31 @@ def family_gas_temperature_C(time_s, positions_m, length_m, width_m, ceiling_hei
     return np.concatenate([f.gas_temperature_C(t, x) for f in fires], axis=1)
 
 
+def fire_label(share=None, spread_rate_mm_s=None, short=False) -> str:
+    """The name of one fire of a family: by its ``share`` of the floor or its ``spread_rate_mm_s`` [mm/s].
+
+    The long form names the columns of the exposure (and so each member's governing fire in the
+    outputs); the short form is for the figures' panel titles and labels.
+
+    >>> fire_label(share=0.1), fire_label(share=0.1, short=True), fire_label(spread_rate_mm_s=5.0)
+    ('0.1 of the floor (10 %)', '10 % fire', 'spread 5 mm/s')
+    """
+    if (share is None) == (spread_rate_mm_s is None):
+        raise InputError("share", share, "give either share or spread_rate_mm_s, not both or neither")
+    if spread_rate_mm_s is not None:
+        return f"spread {spread_rate_mm_s:g} mm/s"
+    return f"{share * 100:g} % fire" if short else f"{share:.3g} of the floor ({share * 100:g} %)"
+
+
+def exposure_label(fire_label_text, along_m) -> str:
+    """The label of one exposure column: a fire of the family (:func:`fire_label`) at ``along_m`` [m].
+
+    >>> exposure_label("0.1 of the floor (10 %)", 6.0)
+    '0.1 of the floor (10 %) at x = 6 m'
+    """
+    return f"{fire_label_text} at x = {along_m:g} m"
+
+
 # ---------------------------------------------------------------------------------------------------
 # the travelling fire as a design fire (the registry's "travelling" curve)
 
@@ -297,7 +322,11 @@ def design_fire(setup: FireSetup) -> DesignFire:
     """A family of travelling fires (one per fire size or spread rate) as a design fire: each member at its
     position ``along_m`` is run in every fire of the family, and the worst governs it (Stern-Gottfried and
     Rein 2012 ask for the worst of several sizes); near field at ``near_field_C``, far field by Alpert's
-    ceiling jet capped at it; alpha_c of a natural fire."""
+    ceiling jet capped at it; alpha_c of a natural fire.
+
+    Its ``series(time_s)`` holds, for the report's figures, the heat release Q = RHR_f W (leading -
+    trailing edge) of each fire of the family [MW] (T x S), the fires' long and short labels
+    (:func:`fire_label`) and each member's position ``member_along_m`` [m] in schedule order."""
     from steelfire.models.fire import fireload
 
     o = setup.options
@@ -320,11 +349,13 @@ def design_fire(setup: FireSetup) -> DesignFire:
     if o.get("spread_rate_mm_s") is not None:
         fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, spread_rate_m_s=s * 1e-3, allow_out_of_scope=True)
                  for s in o["spread_rate_mm_s"]]
-        labels = [f"spread {s:g} mm/s" for s in o["spread_rate_mm_s"]]
+        labels = [fire_label(spread_rate_mm_s=s) for s in o["spread_rate_mm_s"]]
+        short_labels = [fire_label(spread_rate_mm_s=s, short=True) for s in o["spread_rate_mm_s"]]
     else:
         shares = o.get("fire_sizes") or FIRE_SIZES
         fires = [travelling_fire(ln, w, h, qfd, rhr, tnf, share=a, allow_out_of_scope=True) for a in shares]
-        labels = [f"{a:.3g} of the floor ({a * 100:g} %)" for a in shares]
+        labels = [fire_label(share=a) for a in shares]
+        short_labels = [fire_label(share=a, short=True) for a in shares]
     positions = [p["along_m"] for p in setup.positions]
     for i, x in enumerate(positions):
         if not 0.0 <= x <= ln:
@@ -337,11 +368,17 @@ def design_fire(setup: FireSetup) -> DesignFire:
         t = np.asarray(time_s, dtype=float)
         gas = np.concatenate([f.gas_temperature_C(t, np.array(distinct)) for f in fires], axis=1)
         return Exposure(gas_C=gas, member_columns=[[s * n_p + where[x] for s in range(len(fires))] for x in positions],
-                        column_labels=[f"{lab} at x = {x:g} m" for lab in labels for x in distinct],
+                        column_labels=[exposure_label(lab, x) for lab in labels for x in distinct],
                         series={"fire_labels": labels})
 
     def gas(time_s):
         return exposure(time_s).gas_C.max(axis=1)
+
+    def series(time_s):
+        t = as_times_s(time_s)
+        return {"heat_release_MW": np.column_stack([f.heat_release_W(t) for f in fires]) / 1e6,
+                "fire_labels": list(labels), "fire_short_labels": list(short_labels),
+                "member_along_m": np.asarray(positions, dtype=float)}
 
     key = sorted({k for f in fires for k in f.key_times_s(distinct)})
     longest = max(f.total_duration_s for f in fires)
@@ -360,4 +397,4 @@ def design_fire(setup: FireSetup) -> DesignFire:
               "longest_duration_min": longest / 60.0}
     return DesignFire(curve="travelling", gas_temperature_C=gas, alpha_c=convection(setup, "alpha_c_natural"),
                       cools=True, key_times_s=tuple(key), values=values, quantities=QUANTITIES, warnings=warnings,
-                      out_of_scope=oos, equivalence=EQUIVALENCE_NOTE, exposure=exposure)
+                      out_of_scope=oos, equivalence=EQUIVALENCE_NOTE, exposure=exposure, series=series)

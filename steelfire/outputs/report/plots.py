@@ -1,4 +1,5 @@
-"""Figures of the report: design fire, steel temperatures, equivalent times, protection thickness.
+"""Figures of the report: design fire (or, for a localised or travelling fire, its heat release and a figure of
+where the members stand), steel temperatures, equivalent times, protection thickness.
 
 matplotlib is imported inside the functions only (Agg canvas, no pyplot, no change of the user's
 backend or rcParams: every figure is drawn inside ``matplotlib.rc_context``), so ``import steelfire``
@@ -16,7 +17,12 @@ import re
 from dataclasses import dataclass
 
 #: Figures the report may hold, in report order (file names ``fig_<name>.png`` / ``.svg``).
-FIGURE_NAMES = ("design_fire", "steel_temperatures", "time_equivalence", "thickness", "resistance")
+FIGURE_NAMES = ("design_fire", "heat_release", "plan_view", "height_profile", "steel_temperatures",
+                "time_equivalence", "thickness", "resistance")
+#: Fires whose members each see their own exposure: the figure of their geometry. For these the heat
+#: release figure takes the place of the design-fire figure (whose gas temperature is only the hottest
+#: of the members' exposures).
+GEOMETRY_FIGURE = {"localised": "height_profile", "travelling": "plan_view"}
 
 #: Schedules up to this many members are plotted whole; above it a selection is plotted.
 PLOT_ALL_MAX = 12
@@ -40,8 +46,16 @@ EQUAL_T = "#dd9c2c"       # amber
 SMALL_COMPARTMENT = "#7d9fc0"  # light steel blue, dotted
 SECOND_MODEL = "#5b8a3c"  # moss green, dashed: the other protected-steel model
 MARKER = INK
+#: Verdict marks of members drawn at their positions: shape and colour both tell pass from FAIL.
+PASS_MARK = {"marker": "o", "color": STEEL, "ms": 6.5}
+FAIL_MARK = {"marker": "X", "color": DESIGN_FIRE, "ms": 8.5}
+#: Colours and dashes of the fires of a travelling family (one line each), distinct in grey print too.
+FAMILY_STYLES = ((DESIGN_FIRE, "-"), (STEEL, (0, (5, 2))), (EQUAL_T, (0, (1, 1.5))), (SECOND_MODEL, "-."),
+                 (STANDARD, (0, (8, 2, 1, 2))), (SMALL_COMPARTMENT, "-"))
 
 FIG_WIDTH_IN = 7.0
+#: Width [in] of one column of a two-column key of members below a figure, its mark and spacing excluded.
+KEY_COLUMN_IN = (FIG_WIDTH_IN - 0.3) / 2.0 - 0.35
 
 _RC = {
     "font.family": "sans-serif",
@@ -112,7 +126,8 @@ def plan(doc, history_names) -> dict:
     idx, note = select_members(doc)
     have_hist = set(history_names)
     hist_idx = [i for i in idx if doc["members"][i]["name"] in have_hist]
-    figs = ["design_fire"]
+    curve = (doc.get("fire") or {}).get("curve")
+    figs = ["heat_release", GEOMETRY_FIGURE[curve]] if curve in GEOMETRY_FIGURE else ["design_fire"]
     if hist_idx:
         figs.append("steel_temperatures")
     if idx and _has_equivalence(doc, idx):
@@ -149,23 +164,27 @@ def _short(name: str, most: int) -> str:
     return name if len(name) <= most else name[: most - 1] + "…"
 
 
-def _text_width_in(text: str, size_pt: float) -> float:
-    """Width [in] of ``text`` set in the figures' font at ``size_pt``."""
+def _text_width_in(text: str, size_pt: float, weight: str = "normal") -> float:
+    """Width [in] of ``text`` set in the figures' font at ``size_pt`` (and ``weight``: bold is wider)."""
+    from matplotlib.font_manager import FontProperties
     from matplotlib.textpath import TextPath
 
-    return TextPath((0, 0), _mpl_text(text), size=size_pt).get_extents().width / 72.0 if text else 0.0
+    if not text:
+        return 0.0
+    path = TextPath((0, 0), _mpl_text(text), size=size_pt, prop=FontProperties(weight=weight))
+    return path.get_extents().width / 72.0
 
 
-def _fit(name, width_in: float, size_pt: float = 8.0) -> str:
+def _fit(name, width_in: float, size_pt: float = 8.0, weight: str = "normal") -> str:
     """A member name cut (with an ellipsis) to the width it has in a figure: a long name must not run
     into its neighbour's (the tables carry it whole). Returned escaped for matplotlib."""
     name = str(name)
-    if _text_width_in(name, size_pt) <= width_in:
+    if _text_width_in(name, size_pt, weight) <= width_in:
         return _mpl_text(name)
     lo, hi = 0, len(name) - 1  # the longest prefix that fits with its ellipsis
     while lo < hi:
         mid = (lo + hi + 1) // 2
-        if _text_width_in(name[:mid] + "…", size_pt) <= width_in:
+        if _text_width_in(name[:mid] + "…", size_pt, weight) <= width_in:
             lo = mid
         else:
             hi = mid - 1
@@ -290,22 +309,348 @@ def design_fire_figure(doc, result):
 
 
 # ----------------------------------------------------------------------------------------------
+# (a') localised and travelling fires: heat release, and where the members stand
+
+
+def _verdict_mark(passes) -> dict:
+    return dict(PASS_MARK if passes else FAIL_MARK)
+
+
+def _verdict_handles(passes):
+    """Legend handles of the verdict marks present (a list of (handle, label))."""
+    from matplotlib.lines import Line2D
+
+    out = []
+    for ok, word in ((True, "pass"), (False, "FAIL")):
+        if ok in passes:
+            mk = _verdict_mark(ok)
+            out.append((Line2D([], [], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"],
+                               markeredgecolor=INK, markeredgewidth=0.5), f"member, {word}"))
+    return out
+
+
+def heat_release_figure(doc, result):
+    """The heat release rate Q [MW] against time: for a localised fire (EN 1991-1-2 Annex E.4, or the case's
+    table) with its flame length L_f of eq (C.1) and the ceiling height; for a travelling fire one line per
+    fire of the family (Q = RHR_f W times the burning band's length)."""
+    import numpy as np
+
+    f = doc["fire"]
+    s = _series(result)
+    t = np.asarray(result.fire.time_s, dtype=float) / 60.0
+    q = np.asarray(s["heat_release_MW"], dtype=float)
+    if f["curve"] == "localised":
+        h = f["ceiling_height_m"]
+        lf = np.asarray(s["flame_length_m"], dtype=float)
+        fig = _figure(4.4)
+        ax_q, ax_l = fig.subplots(2, 1, sharex=True)
+        tq, qq = _thin(t, q, [int(np.argmax(q))])
+        ax_q.plot(tq, qq, color=DESIGN_FIRE, lw=1.7, label="heat release rate Q")
+        if _num(f.get("peak_heat_release_MW")) and _num(f.get("time_of_peak_heat_release_min")):
+            ax_q.plot([f["time_of_peak_heat_release_min"]], [f["peak_heat_release_MW"]], marker="v", ms=6, color=INK,
+                      ls="none", clip_on=False, zorder=4,
+                      label=f"largest {_fmt(f['peak_heat_release_MW'])} MW, from "
+                            f"{_fmt(f['time_of_peak_heat_release_min'], 'time')} min")
+        ax_q.set_ylim(0, max(float(q.max()), 1e-9) * 1.15)
+        ax_q.set_ylabel("heat release Q [MW]")
+        shown = np.maximum(lf, 0.0)   # (C.1) is negative for a fire too small to stand a flame
+        tl, ll = _thin(t, shown, [int(np.argmax(shown))])
+        ax_l.plot(tl, ll, color=STEEL, lw=1.5, label=r"flame length $L_\mathrm{f}$, eq (C.1)")
+        ax_l.axhline(h, color=INK, lw=1.4, label=f"ceiling, H = {_fmt(h, 'input')} m")
+        reach = lf >= h
+        if np.any(reach):
+            ax_l.fill_between(t, 0, 1, where=reach, transform=ax_l.get_xaxis_transform(), color=GAS_TINT,
+                              alpha=0.6, lw=0, label="flame reaches the ceiling: eq (C.4) flux")
+        ax_l.set_ylim(0, max(h, float(shown.max())) * 1.12)
+        ax_l.set_ylabel(r"flame length $L_\mathrm{f}$ [m]")
+        ax_l.set_xlabel("time t [min]")
+        ax_l.set_xlim(0, t[-1])
+        hq, lq = ax_q.get_legend_handles_labels()
+        hl, ll_ = ax_l.get_legend_handles_labels()
+        fig.legend(hq + hl, lq + ll_, loc="outside upper center", ncols=2)
+        src = ("the case's table" if f.get("heat_release_source") == "table" else
+               "EN 1991-1-2 E.4: growth Q = 1 MW (t/t_alpha)^2, plateau RHR_f A_fi, linear decay once 70 % of the "
+               "fire load has burnt")
+        cap = (f"Heat release rate of the localised fire ({src}) and its flame length L_f by EN 1991-1-2 eq (C.1) "
+               f"against time (values of (C.1) below zero drawn as 0), with the ceiling H = {_fmt(h, 'input')} m "
+               "above the fire source")
+        cap += ("; shaded where the flame reaches the ceiling (L_f >= H: the heat flux of eq (C.4) then "
+                "governs the members near the ceiling)." if np.any(reach) else
+                "; the flame stays below the ceiling throughout (L_f < H).")
+        return fig, cap
+    labels = s.get("fire_short_labels") or [f"fire {k + 1}" for k in range(q.shape[1])]
+    gov = _governing_fires(doc, s)
+    fig = _figure(3.4)
+    ax = fig.add_subplot()
+    q2 = q.reshape(len(t), -1)
+    for k in range(q2.shape[1]):
+        colour, dash = FAMILY_STYLES[k % len(FAMILY_STYLES)]
+        tk, qk = _thin(t, q2[:, k], [int(np.argmax(q2[:, k]))])
+        count = sum(1 for g in gov if g == k)
+        ax.plot(tk, qk, color=colour, ls=dash, lw=1.5,
+                label=_mpl_text(labels[k]) + (f" (governs {count} member{'s' if count != 1 else ''})" if count else ""))
+    ax.set_xlim(0, t[-1])
+    ax.set_ylim(0, float(np.max(q2)) * 1.12 if np.max(q2) > 0 else 1.0)
+    ax.set_xlabel("time t [min]")
+    ax.set_ylabel("heat release Q [MW]")
+    fig.legend(*ax.get_legend_handles_labels(), loc="outside upper center", ncols=2)
+    cap = ("Heat release rate of each travelling fire of the family against time: Q = RHR_f W (leading edge - "
+           f"trailing edge), with RHR_f = {_fmt(f.get('heat_release_density_kW_m2'), 'input')} kW/m2 (EN 1991-1-2 "
+           f"Table E.5) over the floor's width W = {_fmt(f.get('width_m'), 'input')} m; the fire grows over its "
+           "burning time t_b = q_f,d / RHR_f, travels at constant size, and shrinks at the far end (Stern-Gottfried "
+           "and Rein 2012, Rackauskaite et al. 2015). The legend counts the members each fire governs.")
+    return fig, cap
+
+
+def plan_view_figure(doc, result, idx, note):
+    """Plan of the floor of a travelling fire: length (direction of travel) by width, the direction of travel,
+    each member at its position along the floor (``position.along_m``) marked by its verdict and labelled
+    with the fire size that governs it. Members are set one to a row across the width for legibility (the
+    model places them only along the floor)."""
+    import numpy as np
+    from matplotlib.patches import Rectangle
+
+    f = doc["fire"]
+    s = _series(result)
+    length, width = float(f["length_m"]), float(f["width_m"])
+    xs = np.asarray(s["member_along_m"], dtype=float)
+    gov = _governing_fires(doc, s)
+    short = s.get("fire_short_labels") or []
+    ms = doc["members"]
+    order = sorted(idx, key=lambda i: (xs[i], i))
+    n = len(order)
+    fig = _figure(max(2.9, 1.5 + 0.26 * n))
+    ax = fig.add_subplot()
+    ax.add_patch(Rectangle((0.0, 0.0), length, n, facecolor=GRID, alpha=0.35, edgecolor=INK, lw=1.0, zorder=1))
+    axes_in = FIG_WIDTH_IN - 0.55   # the axes' width: no y tick labels, a narrow margin each side
+    for row, i in enumerate(order):
+        m = ms[i]
+        x, y = xs[i], row + 0.5
+        ax.plot([x, x], [0.0, n], color=STANDARD, lw=0.6, ls=(0, (1, 2)), zorder=2)
+        mk = _verdict_mark(m["passes"])
+        ax.plot([x], [y], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"], markeredgecolor=INK,
+                markeredgewidth=0.5, zorder=4, clip_on=False, gid=f"member-{i}")
+        k = gov[i]
+        size = short[k] if k is not None and k < len(short) else "governing fire not named"
+        tail = f": {size}, {'pass' if m['passes'] else 'FAIL'}"
+        right = x <= 0.5 * length
+        room = ((length - x) if right else x) / length * axes_in - 0.2
+        name = _fit(m["name"], max(room - _text_width_in(tail, 7.5), 0.3), 7.5)
+        ax.annotate(name + _mpl_text(tail), xy=(x, y), xytext=(7 if right else -7, 0), textcoords="offset points",
+                    ha="left" if right else "right", va="center", fontsize=7.5, zorder=5,
+                    fontweight="normal" if m["passes"] else "bold")
+    others = [i for i in range(len(ms)) if i not in set(idx)]
+    if others:
+        ax.plot(xs[others], np.full(len(others), -0.3), ls="none", marker="|", ms=8, color=STANDARD, clip_on=False,
+                label="other members (not labelled)")
+    y_arrow = n + 0.55
+    ax.annotate("", xy=(0.3 * length, y_arrow), xytext=(0.0, y_arrow),
+                arrowprops={"arrowstyle": "-|>", "color": DESIGN_FIRE, "lw": 1.6, "shrinkA": 0, "shrinkB": 0})
+    ax.annotate("direction of travel: the fire starts at x = 0", xy=(0.3 * length, y_arrow), xytext=(5, 0),
+                textcoords="offset points", ha="left", va="center", fontsize=8, color=INK)
+    ax.annotate(f"W = {_fmt(width, 'input')} m", xy=(0.0, n / 2.0), xytext=(-4, 0), textcoords="offset points",
+                rotation=90, ha="right", va="center", fontsize=8)
+    ax.set_xlim(-0.02 * length, 1.02 * length)
+    ax.set_ylim(-0.7, n + 1.1)
+    ax.set_yticks([])
+    ax.grid(axis="y", visible=False)
+    ax.spines["left"].set_visible(False)
+    ax.set_xlabel(f"position along the floor x [m] (length L = {_fmt(length, 'input')} m)")
+    handles = _verdict_handles({m["passes"] for m in (ms[i] for i in order)})
+    handles += list(zip(*ax.get_legend_handles_labels())) if others else []
+    if handles:
+        fig.legend([h for h, _ in handles], [lab for _, lab in handles], loc="outside upper center",
+                   ncols=len(handles))
+    cap = (f"Plan of the floor, {_fmt(length, 'input')} m along the direction of travel by {_fmt(width, 'input')} m "
+           "across (the travelling fire spans the width and starts at x = 0, arrow): each member at its position "
+           "along the floor (position.along_m; dotted: the model gives it the same exposure across the width), "
+           "marked by its verdict and labelled with the fire size that governs it, the worst of the family "
+           "(Stern-Gottfried and Rein 2012, Rackauskaite et al. 2015). Members are set one to a row for legibility; "
+           "the rows have no meaning")
+    cap += f"; labelled: {note}." if note else "."
+    return fig, cap
+
+
+def height_profile_figure(doc, result, idx, note):
+    """A localised fire at its largest heat release: the plume temperature on the fire axis against height
+    (EN 1991-1-2 eq (C.2), virtual origin eq (C.3)) up to the ceiling with the flame tip L_f (eq (C.1));
+    beside it an elevation with the members at their (distance from the axis, height), marked by verdict."""
+    import numpy as np
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Polygon, Rectangle
+
+    from steelfire.models.fire import localised as lc
+
+    f = doc["fire"]
+    s = _series(result)
+    d, h = float(f["diameter_m"]), float(f["ceiling_height_m"])
+    q_w = float(f["peak_heat_release_MW"]) * 1e6
+    lf = float(lc.flame_length_m(q_w, d))
+    reaches = lf >= h
+    z_cap = float(lc.plume_limit_height_m(q_w, d))
+    z = np.unique(np.concatenate([np.linspace(0.0, h, 241), [v for v in (lf, z_cap) if 0.0 < v < h]]))
+    theta = lc.plume_temperature_C(z, q_w, d)
+    rs = np.asarray(s["member_distance_m"], dtype=float)
+    zs = np.asarray(s["member_height_m"], dtype=float)
+    ms = doc["members"]
+    shown = list(idx)
+    top = max(h, lf if reaches else 0.0) * 1.1
+
+    fig = _figure(4.6)
+    grid = fig.add_gridspec(1, 2, width_ratios=(1.0, 1.7))
+    ax_t = fig.add_subplot(grid[0])
+    ax_g = fig.add_subplot(grid[1], sharey=ax_t)
+    ax_t.plot(theta, z, color=DESIGN_FIRE, lw=1.7, ls=(0, (5, 2)) if reaches else "-", gid="plume",
+              label="plume axis, eq (C.2)" + (" (not valid: flame at the ceiling)" if reaches else ""))
+    for ax in (ax_t, ax_g):
+        ax.axhline(h, color=INK, lw=2.0, zorder=3)
+        if lf > 0.0:
+            ax.axhline(lf, color=CRITICAL, lw=1.1, ls=(0, (4, 2)), zorder=2)
+    ax_t.set_xlim(0.0, lc.PLUME_MAX_C * 1.1)
+    ax_t.set_ylim(0.0, top)
+    ax_t.set_xlabel("gas temperature on the axis [°C]")
+    ax_t.set_ylabel("height above the fire source z [m]")
+
+    r_max = max([d / 2.0 * 1.6] + [float(rs[i]) for i in range(len(ms))]) * 1.12
+    ax_g.add_patch(Rectangle((0.0, -0.012 * top), d / 2.0, 0.024 * top, color=DESIGN_FIRE, lw=0, zorder=3,
+                             clip_on=False))
+    if lf > 0.0:
+        ax_g.add_patch(Polygon([(0.0, 0.0), (d / 2.0, 0.0), (0.0, min(lf, h))], closed=True, color=GAS_TINT,
+                               lw=0, zorder=1))
+    if reaches:
+        lh = float(lc.horizontal_flame_length_m(q_w, h))
+        if lh > 0.0:
+            ax_g.add_patch(Rectangle((0.0, h - 0.035 * top), lh, 0.035 * top, color=GAS_TINT, lw=0, zorder=1))
+    ax_g.axvline(0.0, color=STANDARD, lw=0.9, ls=(0, (6, 2, 1, 2)), zorder=2)
+    ax_g.axvline(d / 2.0, color=STANDARD, lw=0.7, ls=(0, (1, 2)), zorder=2)
+    ax_g.annotate("D/2", xy=(d / 2.0, 0.02), xycoords=("data", "axes fraction"), xytext=(3, 0),
+                  textcoords="offset points", fontsize=7.5, ha="left", va="bottom", color=STANDARD)
+    keyed, marks, on_axis = [], {}, {}
+    for no, i in enumerate(shown, start=1):
+        m = ms[i]
+        mk = _verdict_mark(m["passes"])
+        ax_g.plot([rs[i]], [zs[i]], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"],
+                  markeredgecolor=INK, markeredgewidth=0.5, zorder=5, clip_on=False, gid=f"member-{i}")
+        marks.setdefault((float(rs[i]), float(zs[i])), []).append(no)
+        if rs[i] <= d / 2.0:   # on the plume axis: the member sees eq (C.2) at its height
+            th = float(lc.plume_temperature_C(zs[i], q_w, d))
+            ax_t.plot([th], [zs[i]], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"] * 0.8,
+                      markeredgecolor=INK, markeredgewidth=0.5, zorder=5, clip_on=False)
+            on_axis.setdefault((th, float(zs[i])), []).append(no)
+        head = f"{no}  "
+        tail = f": r {_fmt(rs[i], 'input')} m, z {_fmt(zs[i], 'input')} m, {'pass' if m['passes'] else 'FAIL'}"
+        room = KEY_COLUMN_IN - _text_width_in(head + tail, 7.5)
+        keyed.append((Line2D([], [], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"] * 0.9,
+                             markeredgecolor=INK, markeredgewidth=0.5),
+                      head + _fit(m["name"], max(room, 0.4), 7.5) + _mpl_text(tail)))
+    for ax, points in ((ax_g, marks), (ax_t, on_axis)):
+        for (x, zz), nos in points.items():
+            ax.annotate(", ".join(str(k) for k in nos), xy=(x, zz), xytext=(5, 4), textcoords="offset points",
+                        fontsize=7.5, fontweight="bold", ha="left", va="bottom", zorder=6)
+    others = [i for i in range(len(ms)) if i not in set(shown)]
+    if others:
+        ax_g.plot(rs[others], zs[others], ls="none", marker=".", ms=4, color=STANDARD, zorder=4, clip_on=False)
+        keyed.append((Line2D([], [], ls="none", marker=".", ms=4, color=STANDARD), "other members (not numbered)"))
+    ax_g.set_xlim(0.0, r_max)
+    ax_g.set_xlabel("distance from the fire axis r [m]")
+    ax_g.yaxis.set_tick_params(labelleft=False)
+    lines = [(Line2D([], [], color=DESIGN_FIRE, lw=1.7, ls=(0, (5, 2)) if reaches else "-"),
+              "plume axis, eq (C.2)" + (", not valid here" if reaches else "")),
+             (Line2D([], [], color=CRITICAL, lw=1.1, ls=(0, (4, 2))),
+              r"flame tip $L_\mathrm{f}$" + f" = {_fmt(lf)} m, eq (C.1)" + (" (unconfined)" if reaches else "")),
+             (Line2D([], [], color=INK, lw=2.0), f"ceiling, H = {_fmt(h, 'input')} m"),
+             (Rectangle((0, 0), 1, 1, color=GAS_TINT),
+              "flame" + (r", $L_\mathrm{h}$ along the ceiling, eq (C.5)" if reaches else "")),
+             (Line2D([], [], color=STANDARD, lw=0.9, ls=(0, (6, 2, 1, 2))), "fire axis")]
+    fig.legend([a for a, _ in lines], [b for _, b in lines], loc="outside upper center", ncols=3, fontsize=7.5)
+    fig.legend([a for a, _ in keyed], [b for _, b in keyed], loc="outside lower center", ncols=2, fontsize=7.5,
+               handletextpad=0.3, columnspacing=1.2)
+    tpk = f.get("time_of_peak_heat_release_min")
+    cap = (f"Localised fire at its largest heat release, Q = {_fmt(f['peak_heat_release_MW'])} MW"
+           + (f" (from {_fmt(tpk, 'time')} min)" if _num(tpk) else "") + f", fire diameter D = {_fmt(d)} m. Left: "
+           "the gas temperature on the fire axis against height by EN 1991-1-2 eq (C.2) (Q_c = 0.8 Q, virtual origin "
+           f"z_0 of eq (C.3), at most 900 °C) up to the ceiling H = {_fmt(h, 'input')} m, with the flame tip "
+           f"L_f = {_fmt(lf)} m of eq (C.1). Right: the members at their distance r from the fire axis and height z "
+           "above the fire source, marked by verdict and numbered as in the key; within D/2 of the axis a member "
+           "sees the plume at its height (also marked on the left), further out the ceiling jet (steelfire's rule)")
+    if reaches:
+        cap += (f". The flame reaches the ceiling (L_f = {_fmt(lf)} m >= H = {_fmt(h, 'input')} m): eq (C.2) does "
+                "not apply there (dashed, for reference only); the heat flux at the ceiling of eq (C.4)-(C.8) governs "
+                "the members' exposure (the larger of it and the plume or jet bound), and the flame spreads under the "
+                "ceiling over L_h of eq (C.5)")
+    cap += f"; numbered: {note}." if note else "."
+    return fig, cap
+
+
+# ----------------------------------------------------------------------------------------------
 # (b) steel temperature of each member
 
 
+def member_exposures(result):
+    """Each member's own exposure on the run's grid [C] (T x N) for a fire that differs from member to
+    member: the gas temperature its kernel was given (for a heat flux, the adiabatic surface temperature
+    that stands for it), in the fire of the family that governs it; None for a fire all members see
+    alike, or where the run kept no histories."""
+    import numpy as np
+
+    e = getattr(result.fire, "exposure_C", None)
+    return None if e is None else np.asarray(e, dtype=float)
+
+
+def _series(result) -> dict:
+    """The design fire's series (heat release, flame length, member positions), or an empty dict."""
+    try:
+        return result.fire.series or {}
+    except AttributeError:
+        return {}
+
+
+def _governing_fires(doc, series) -> list:
+    """Per member, the index of the fire of a travelling family that governs it (its column label in
+    the document, :func:`steelfire.models.fire.travelling.exposure_label`), None where none matches."""
+    from steelfire.models.fire.travelling import exposure_label
+
+    labels = series.get("fire_labels") or []
+    xs = series.get("member_along_m")
+    out = []
+    for i, m in enumerate(doc["members"]):
+        g = m.get("governing_exposure")
+        hit = [k for k, lab in enumerate(labels) if xs is not None and i < len(xs) and exposure_label(lab, xs[i]) == g]
+        out.append(hit[0] if hit else None)
+    return out
+
+
 def steel_temperatures_figure(doc, result, idx, note):
-    """Small multiples: each member's steel temperature with its critical temperature and the time of its peak."""
+    """Small multiples: each member's steel temperature with its critical temperature and the time of its peak,
+    behind it the gas temperature it was exposed to: the design fire, or for a fire that differs from member
+    to member (localised, travelling) the member's own exposure (:func:`member_exposures`); for a travelling
+    fire the panel names the fire size that governs the member."""
     import numpy as np
 
     t = np.asarray(result.fire.time_s, dtype=float) / 60.0
     g = np.asarray(result.fire.gas_temperature_C, dtype=float)
+    own = member_exposures(result)
+    curve = doc["fire"].get("curve")
+    series = _series(result)
+    gov = _governing_fires(doc, series) if curve == "travelling" and own is not None else None
+    short = series.get("fire_short_labels") or []
     n = len(idx)
     ncols = n if n <= 3 else (2 if n == 4 else 3)
     nrows = math.ceil(n / ncols)
-    fig = _figure(3.0 if n == 1 else 0.7 + 1.75 * nrows)
+    extra = 0.15 * nrows if gov is not None else 0.0   # a third title line: the governing fire size
+    fig = _figure((3.0 if n == 1 else 0.7 + 1.75 * nrows) + extra)
     axes = fig.subplots(nrows, ncols, sharex=True, sharey=True, squeeze=False)
-    tg, gg = _thin(t, g, [int(np.argmax(g))])
-    ymax = max(float(g.max()), max(doc["members"][i]["critical_temperature_C"] for i in idx)) * 1.08
+    if own is None:
+        tg, gg = _thin(t, g, [int(np.argmax(g))])
+        hottest = float(g.max())
+        gas_label = "gas (design fire)"
+    else:
+        hottest = max(float(np.nanmax(own[:, i])) for i in idx)
+        gas_label = ("gas at the member, governing fire" if curve == "travelling" else
+                     "exposure at the member" if curve == "localised" else "gas at the member")
+    ymax = max(hottest, max(doc["members"][i]["critical_temperature_C"] for i in idx)) * 1.08
+    title_in = (FIG_WIDTH_IN - 0.6) / ncols - 0.2
+    title_weight = "bold" if own is not None else "normal"   # the titles are bold: measured so where it matters
     for k, ax in enumerate(axes.flat):
         if k >= n:
             ax.set_visible(False)
@@ -315,7 +660,9 @@ def steel_temperatures_figure(doc, result, idx, note):
         h = np.asarray(result.members[i].steel_temperature_C, dtype=float)
         ipk = int(np.argmax(h))
         ts, hs = _thin(t, h, [ipk])
-        ax.plot(tg, gg, color=GAS_TINT, lw=1.0, label="gas (design fire)")
+        if own is not None:
+            tg, gg = _thin(t, own[:, i], [int(np.argmax(own[:, i]))])
+        ax.plot(tg, gg, color=GAS_TINT, lw=1.0, label=gas_label)
         ax.plot(ts, hs, color=STEEL, lw=1.5, label=r"steel $\theta_\mathrm{a}$ (verdict)")
         models = getattr(result.table, "model_histories", None) or {}
         differ = d.get("lumped_valid") is False or abs(d.get("model_difference_C") or 0.0) > 10.0
@@ -332,8 +679,12 @@ def steel_temperatures_figure(doc, result, idx, note):
         ax.plot([d["time_of_peak_steel_min"]], [d["peak_steel_temperature_C"]], marker="v", ms=5, color=INK,
                 ls="none", label="peak steel", clip_on=False, zorder=5)
         verdict = "pass" if d["passes"] else "FAIL"
-        ax.set_title(f"{_fit(d['name'], (FIG_WIDTH_IN - 0.6) / ncols - 0.2)}\n"
-                     f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}", fontsize=8, linespacing=1.3)
+        title = (f"{_fit(d['name'], title_in, 8.0, title_weight)}\n"
+                 f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}")
+        if gov is not None:
+            size = short[gov[i]] if gov[i] is not None and gov[i] < len(short) else "governing fire not named"
+            title += "\n" + _fit(f"{size} governs", title_in, 8.0, title_weight)
+        ax.set_title(title, fontsize=8, linespacing=1.3)
         ax.set_xlim(0, t[-1])
         ax.set_ylim(0, ymax)
     for col in range(ncols):  # the lowest visible panel of each column carries the time axis
@@ -346,8 +697,23 @@ def steel_temperatures_figure(doc, result, idx, note):
         ax.set_ylabel("temperature [°C]")
     h_, l_ = axes.flat[0].get_legend_handles_labels()
     fig.legend(h_, l_, loc="outside upper center", ncols=4)
-    cap = ("Steel temperature of each member in the design fire (EN 1993-1-2 4.2.5), its critical temperature "
-           "(dashed) and the time of its peak (dotted)")
+    if own is None:
+        cap = ("Steel temperature of each member in the design fire (EN 1993-1-2 4.2.5), its critical temperature "
+               "(dashed) and the time of its peak (dotted)")
+    elif curve == "localised":
+        cap = ("Steel temperature of each member in its own exposure (EN 1993-1-2 4.2.5), its critical temperature "
+               "(dashed) and the time of its peak (dotted). Pale: the gas temperature the member's calculation was "
+               "given at its position by steelfire's rule for EN 1991-1-2 Annex C (on the plume axis, eq (C.2), "
+               "within D/2 of the fire axis; the ceiling jet beyond; where the flame reaches the ceiling, the "
+               "adiabatic surface temperature of the heat flux of eq (C.4), which gives the net flux of eq (C.9))")
+    elif curve == "travelling":
+        cap = ("Steel temperature of each member in its own exposure (EN 1993-1-2 4.2.5), its critical temperature "
+               "(dashed) and the time of its peak (dotted). Pale: the gas temperature at the member's position in "
+               "the fire size that governs it (named under the margin; the worst of the family, near field over the "
+               "burning band, ceiling jet beyond)")
+    else:
+        cap = ("Steel temperature of each member in its own exposure (EN 1993-1-2 4.2.5), its critical temperature "
+               "(dashed) and the time of its peak (dotted); pale: the gas temperature at the member")
     cap += f"; shown: {note}. Every member's history is in histories.csv." if note else "."
     return fig, cap
 
@@ -542,6 +908,12 @@ def render_figures(doc, result) -> list:
         for name in rep["figures"]:
             if name == "design_fire":
                 fig, cap = design_fire_figure(doc, result)
+            elif name == "heat_release":
+                fig, cap = heat_release_figure(doc, result)
+            elif name == "plan_view":
+                fig, cap = plan_view_figure(doc, result, rep["plotted_member_indices"], rep["selection"])
+            elif name == "height_profile":
+                fig, cap = height_profile_figure(doc, result, rep["plotted_member_indices"], rep["selection"])
             elif name == "steel_temperatures":
                 fig, cap = steel_temperatures_figure(doc, result, rep["history_plot_member_indices"],
                                                      rep["selection"])
