@@ -434,3 +434,19 @@ def test_without_histories_the_fire_figures_are_still_written(tmp_path):
     figs = written.document["report"]["figures"]
     assert figs[:2] == ["heat_release", "plan_view"] and "steel_temperatures" not in figs
     assert (tmp_path / "out" / "fig_plan_view.png").is_file()
+
+
+def test_histories_csv_holds_each_members_exposure(atrium):
+    # histories.csv of a localised fire: gas_C is the hottest exposure (the envelope) and each member's own
+    # exposure follows its steel column as "exposure_C <name>"; values as the chain used them (2 decimals).
+    import csv
+
+    with open(atrium["out"] / "histories.csv", newline="", encoding="utf-8") as fh:
+        rows = list(csv.reader(fh))
+    names = [m["name"] for m in atrium["doc"]["members"]]
+    assert rows[0] == ["time_min", "gas_C"] + names + [f"exposure_C {n}" for n in names]
+    data = np.array(rows[1:], dtype=float)
+    exposure = np.asarray(atrium["result"].fire.exposure_C, dtype=float)
+    n = len(names)
+    np.testing.assert_allclose(data[:, 2 + n:], exposure, atol=0.006)
+    np.testing.assert_allclose(data[:, 1], exposure.max(axis=1), atol=0.006)

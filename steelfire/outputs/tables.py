@@ -117,12 +117,21 @@ def histories_csv(result) -> tuple:
     """histories.csv text: time_min, gas_C and each member's steel temperature on the design-fire grid.
 
     Member columns are named by member name (CSV-quoted where needed); without kept histories
-    (``analyse(case, histories=False)``) only time and gas are written. Returns (text, names written).
+    (``analyse(case, histories=False)``) only time and gas are written. For a fire that differs from
+    member to member (localised, travelling) gas_C is the hottest of the members' exposures, and each
+    member's own exposure follows as a column ``exposure_C <name>`` (the gas temperature its kernel was
+    given, in the fire that governs it). Returns (text, names written).
     """
     arr = histories_array(result)
     names = list(result.table.name) if result.table.histories is not None else []
+    head = ["time_min", "gas_C"] + [safe_text(n) for n in names]
+    exposure = getattr(result.fire, "exposure_C", None)
+    if names and exposure is not None:
+        exposure = np.asarray(exposure, dtype=float)
+        arr = np.hstack([arr, exposure[: arr.shape[0]]])
+        head += [safe_text(f"exposure_C {n}") for n in names]
     buf = io.StringIO()
-    csv.writer(buf, lineterminator="\n").writerow(["time_min", "gas_C"] + [safe_text(n) for n in names])
+    csv.writer(buf, lineterminator="\n").writerow(head)
     np.savetxt(buf, arr, fmt=["%.6g"] + ["%.2f"] * (arr.shape[1] - 1), delimiter=",", newline="\n")
     return buf.getvalue(), names
 
