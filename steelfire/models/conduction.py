@@ -70,7 +70,7 @@ import numpy as np
 
 from steelfire.errors import InputError
 from steelfire.models.heat import (BATCH_MATH, KELVIN, SPECIFIC_HEAT_TERMS, STEFAN_BOLTZMANN, _announce_compile,
-                                   _finish, _take_ticket, _track, heat_capacity_fraction)
+                                   _finish, _knots, _take_ticket, _track, heat_capacity_fraction)
 from steelfire.models.steel import STEEL_DENSITY_KG_M3
 
 #: Latent heat of vaporisation of water at 100 C, 1 atm [J/kg] (steam tables, from memory: 2256.5 kJ/kg).
@@ -410,16 +410,7 @@ def _general_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v
         hh[j] = d_p[m] / n
         cd[j] = rho_p[m] * c_p[m] * hh[j]
         icd[j] = 1.0 / cd[j] if cd[j] > 0.0 else 0.0
-        nk = lam_n[m]
-        for k in range(n_k):
-            if k < nk:
-                tk[k, j] = lam_T[m, k]
-                vk[k, j] = lam_v[m, k]
-                sk[k, j] = (lam_v[m, k + 1] - lam_v[m, k]) / (lam_T[m, k + 1] - lam_T[m, k]) if k + 1 < nk else 0.0
-            else:
-                tk[k, j] = np.inf
-                vk[k, j] = 0.0
-                sk[k, j] = 0.0
+        _knots(lam_T, lam_v, lam_n[m], m, j, tk, vk, sk)
         for c in range(n):
             lam[c, j] = lam_v[m, 0]
             cap[c, j] = cd[j]

@@ -279,16 +279,20 @@ def annex_f_conversion_factor(
     return _annex_f_kb(b, values)[0]
 
 
-def _annex_f_kb(b: Optional[float], values: Mapping[str, float]) -> tuple[float, str]:
-    lower, upper = values["annex_f_inertia_lower_limit"], values["annex_f_inertia_upper_limit"]
+#: Suffix of the code-value name of each thermal-inertia band (``<factor>_<suffix>``).
+_BAND_SUFFIX = {"high": "high_inertia", "medium": "medium_inertia", "low": "low_inertia", "unknown": "general"}
+
+
+def _by_inertia(b: Optional[float], values: Mapping[str, float], method: str, factor: str) -> tuple[float, str]:
+    """The factor of the thermal-inertia band of ``b`` (Table F.2 and its CIB W14 counterpart) and the band's
+    label: ``<method>_inertia_lower_limit`` / ``_upper_limit`` bound the bands, ``<factor>_<band>`` is the value."""
+    lower, upper = values[f"{method}_inertia_lower_limit"], values[f"{method}_inertia_upper_limit"]
     band = _band(b, lower, upper)
-    k_b = {
-        "high": values["annex_f_kb_high_inertia"],
-        "medium": values["annex_f_kb_medium_inertia"],
-        "low": values["annex_f_kb_low_inertia"],
-        "unknown": values["annex_f_kb_general"],
-    }[band]
-    return k_b, _BAND_LABELS[band].format(lower=lower, upper=upper)
+    return values[f"{factor}_{_BAND_SUFFIX[band]}"], _BAND_LABELS[band].format(lower=lower, upper=upper)
+
+
+def _annex_f_kb(b: Optional[float], values: Mapping[str, float]) -> tuple[float, str]:
+    return _by_inertia(b, values, "annex_f", "annex_f_kb")
 
 
 def annex_f_ventilation_factor(
@@ -572,15 +576,7 @@ def cib_w14_conversion_factor(
 
 
 def _cib_c(b: Optional[float], values: Mapping[str, float]) -> tuple[float, str]:
-    lower, upper = values["cib_w14_inertia_lower_limit"], values["cib_w14_inertia_upper_limit"]
-    band = _band(b, lower, upper)
-    c = {
-        "high": values["cib_w14_c_high_inertia"],
-        "medium": values["cib_w14_c_medium_inertia"],
-        "low": values["cib_w14_c_low_inertia"],
-        "unknown": values["cib_w14_c_general"],
-    }[band]
-    return c, _BAND_LABELS[band].format(lower=lower, upper=upper)
+    return _by_inertia(b, values, "cib_w14", "cib_w14_c")
 
 
 def cib_w14_ventilation_factor(

@@ -249,6 +249,22 @@ def _record(th, lo, w, step, q, query_idx, at_q, hist, keep_history):
 
 
 @nb.njit(cache=True, inline="always")
+def _knots(lam_T, lam_v, nk, m, j, tk, vk, sk):
+    """Column ``j`` of a chunk's conductivity table from row ``m`` of the material tables (``nk`` knots):
+    knot temperatures, values and the slope after each knot; past the last knot +inf, 0 and 0, so that
+    the end value is held."""
+    for k in range(tk.shape[0]):
+        if k < nk:
+            tk[k, j] = lam_T[m, k]
+            vk[k, j] = lam_v[m, k]
+            sk[k, j] = (lam_v[m, k + 1] - lam_v[m, k]) / (lam_T[m, k + 1] - lam_T[m, k]) if k + 1 < nk else 0.0
+        else:
+            tk[k, j] = np.inf
+            vk[k, j] = 0.0
+            sk[k, j] = 0.0
+
+
+@nb.njit(cache=True, inline="always")
 def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross):
     """Per member of the chunk: peak and its time, last increment, threshold crossing (linear in the step)."""
     for j in range(w):
@@ -300,16 +316,7 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                 k_[j] = ap_v[m] / d_p[m]
                 thr[j] = threshold_C[m]
                 dly[j] = delay_s[m]
-                nk = lam_n[m]
-                for k in range(n_k):
-                    if k < nk:
-                        tk[k, j] = lam_T[m, k]
-                        vk[k, j] = lam_v[m, k]
-                        sk[k, j] = (lam_v[m, k + 1] - lam_v[m, k]) / (lam_T[m, k + 1] - lam_T[m, k]) if k + 1 < nk else 0.0
-                    else:
-                        tk[k, j] = np.inf
-                        vk[k, j] = 0.0
-                        sk[k, j] = 0.0
+                _knots(lam_T, lam_v, lam_n[m], m, j, tk, vk, sk)
                 lamj[j] = lam_v[m, 0]
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
             for i in range(n_t - 1):
