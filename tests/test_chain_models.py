@@ -172,3 +172,42 @@ def test_nominal_fire_judges_each_member_at_its_required_period():
     assert t01.passes
     # the steel temperature at 15 min is below that at 60 min (heating only under ISO 834, EN 1991-1-2 3.2.1)
     assert nominal.standard_fire(15 * 60.0) < nominal.standard_fire(60 * 60.0)
+
+
+def test_governing_exposure_is_the_one_the_verdict_rests_on(tmp_path, monkeypatch):
+    # A member that sees two exposures (as under a localised or travelling fire): "spike" heats to 1,100 C in
+    # 10 min and then cools with +-8 C jitter, "steady" ramps to 700 C and stays. Under the spike, eq (4.27)
+    # pumps heat in on every fall (the jittered-curve test above) and its steel goes far above any gas, so the
+    # verdict rests on the conduction model; under that model the steady exposure is the worse one. The
+    # exposure named as governing, and drawn in the report, must be the one the verdict's peak comes from.
+    from dataclasses import replace
+
+    from steelfire.chain import fires
+    from steelfire.models.fire.design import Exposure
+
+    def spike(t):
+        jitter = np.where(np.round(t / 5.0) % 2 == 0, 8.0, -8.0) * (t >= 600.0)
+        return np.where(t < 600.0, 20.0 + 1080.0 * t / 600.0, np.maximum(1100.0 - (t - 600.0) / 4.0, 20.0)) + jitter
+
+    def steady(t):
+        return 20.0 + 680.0 * np.minimum(t / 1200.0, 1.0)
+
+    case = _table_case(tmp_path, lambda t: np.maximum(spike(t), steady(t)),
+                       protection={"density": 1200.0, "conductivity": 0.2, "specific_heat": 2200.0})
+    case = case.with_member("P1", section_factor_per_m=340.0, thickness_mm=40.0)
+    original = fires.design_fire
+
+    def two_exposures(c):
+        f = original(c)
+        return replace(f, exposure=lambda t: Exposure(np.stack([spike(t), steady(t)], axis=1), [[0, 1]],
+                                                      ["spike", "steady"]))
+
+    monkeypatch.setattr(fires, "design_fire", two_exposures)
+    r = steelfire.analyse(case)
+    m = r.members[0]
+    assert m.lumped_valid is False and m.verdict_model == "conduction"
+    assert m.governing_exposure == "steady"
+    t = r.fire.time_s
+    assert np.array_equal(r.fire.exposure_C[:, 0], steady(t))
+    # second law against the exposure named: the steel never above the hottest gas of it so far
+    assert np.max(r.table.histories[:, 0] - np.maximum.accumulate(steady(t))) <= 1e-6

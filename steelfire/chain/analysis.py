@@ -97,10 +97,11 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
         peak[judged_at] = design.at_query_C[judged_at, at]
         peak_time_s[judged_at] = t[query[at]]
     lumped_peak = peak.copy()
+    governing = np.array(governing, dtype=np.int64)
     # protected members by the conduction model beside eq (4.27); it governs where eq (4.27) breaks the
     # second law or where the case asks for it (chain.protected)
     two, notes = protected.run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last, history,
-                                    judged_at, query)
+                                    judged_at, query, governing)
     warnings += notes
     # the standard fire (EN 1991-1-2 3.2.1) for times to critical and for the equal-steel-temperature
     # equivalence: when the same member reaches its design-fire peak (each member twice, one threshold each)

@@ -46,10 +46,12 @@ def applies(case, fire) -> bool:
     return fire.cools or case.fire.curve == "table" or case.analysis.protection_model == "conduction"
 
 
-def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last, history, judged_at, query):
+def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last, history, judged_at, query,
+             governing):
     """Run the conduction model beside eq (4.27) for the protected members (in place: ``peak``,
-    ``peak_time_s``, ``last`` and ``history`` take the conduction model's values where it governs).
-    Returns :class:`TwoModels` and the warnings."""
+    ``peak_time_s``, ``last``, ``history`` and ``governing``, the exposure column of each member, take the
+    conduction model's values where it governs: a member that sees several columns may be governed by
+    another column under that model). Returns :class:`TwoModels` and the warnings."""
     n = len(case.members)
     code = case.code
     out = TwoModels(np.full(n, np.nan), np.full(n, np.nan), [None] * n,
@@ -59,17 +61,17 @@ def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last,
         return out, []
     model = case.analysis.protection_model
     keep = history is not None or bool(np.any(judged_at[prot]))
-    p8, t8, _, l8, h8, _ = exposures.run_conduction(code, cols, prot, keep_history=keep)
+    p8, t8, _, l8, h8, _, g8 = exposures.run_conduction(code, cols, prot, keep_history=keep)
     lumped_peak = peak[prot].copy()
     valid = design.excess_C[prot] <= SECOND_LAW_TOLERANCE_C
     refine = (~valid) | (model == "conduction") | (np.minimum(np.abs(p8 - crit[prot]),
                                                               np.abs(lumped_peak - crit[prot])) < REFINE_WITHIN_C)
-    cp, ct, cl, change = p8.copy(), t8.copy(), l8.copy(), np.full(len(prot), np.nan)
+    cp, ct, cl, cg, change = p8.copy(), t8.copy(), l8.copy(), g8.copy(), np.full(len(prot), np.nan)
     ch = h8
     if np.any(refine):
         sel = prot[refine]
-        rp, rt, _, rl, rh, rc = exposures.run_conduction(code, cols, sel, converged=True, keep_history=keep)
-        cp[refine], ct[refine], cl[refine], change[refine] = rp, rt, rl, rc
+        rp, rt, _, rl, rh, rc, rg = exposures.run_conduction(code, cols, sel, converged=True, keep_history=keep)
+        cp[refine], ct[refine], cl[refine], cg[refine], change[refine] = rp, rt, rl, rg, rc
         if keep:
             ch = h8.copy()
             ch[:, refine] = rh
@@ -88,7 +90,7 @@ def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last,
         out.verdict_model[i] = "conduction" if governs[j] else "lumped"
     out.governs[prot] = governs
     g = prot[governs]
-    peak[g], peak_time_s[g], last[g] = cp[governs], ct[governs], cl[governs]
+    peak[g], peak_time_s[g], last[g], governing[g] = cp[governs], ct[governs], cl[governs], cg[governs]
     if history is not None:
         out.histories["lumped"] = history.copy()
         cond = np.full_like(history, np.nan)

@@ -152,7 +152,8 @@ class Exposures:
     def run_conduction(self, code, cols, select, converged=False, keep_history=False, thickness_mm=None,
                            thresholds_C=np.inf):
         """:func:`conduction_run` of the members ``select`` in every column they see, reduced to the worst per member:
-        (peak, peak time, last increment, history or None, largest refinement change or NaN)."""
+        (peak, peak time, crossing time, last increment, history or None, largest refinement change or NaN,
+        the governing column of each member)."""
         select = np.asarray(select, dtype=np.int64)
         counts = np.array([len(self.member_columns[i]) for i in select], dtype=np.int64)
         which = np.repeat(np.arange(len(select)), counts)
@@ -164,7 +165,7 @@ class Exposures:
         gov = order[np.searchsorted(which[order], np.arange(len(select)))]
         change = np.fmax(r.cells_change_C, r.substeps_change_C)[gov]
         return (r.peak_C[gov], r.peak_time_s[gov], r.crossing_time_s[gov], r.last_increment_C[gov],
-                r.history_C[:, gov] if keep_history else None, change)
+                r.history_C[:, gov] if keep_history else None, change, fire[gov])
 
     def run(self, code, cols: MemberColumns, select=None, keep_history=False, query_idx=None, **kw):
         """The members ``select`` (all if None) through the kernels in every column they see, reduced to one
