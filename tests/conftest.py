@@ -3,7 +3,7 @@
 The kernels of steelfire.models.heat and steelfire.models.conduction are cached on disk
 (``cache=True``). In a fresh clone the cache is empty and each process that runs them compiles them
 first (about a minute of one core in all); with pytest-xdist every worker would do so. Here the
-controlling process (or the only one, without xdist) compiles them in three short processes side by
+controlling process (or the only one, without xdist) compiles them in four short processes side by
 side before any test runs, so that the test processes load them from the cache. Nothing here changes
 what a test computes; if the warm-up fails, the tests compile the kernels themselves (and show any
 error).
@@ -33,9 +33,12 @@ _CONDUCTION = """
 import numpy as np
 from steelfire.models import conduction
 t = np.arange(0.0, 601.0, 60.0)
-conduction.protected_steel_temperature(t, np.linspace(20.0, 500.0, t.size), 200.0, 0.02, 800.0, 1700.0, 0.2)
+g = np.linspace(20.0, 500.0, t.size)
+conduction.protected_steel_temperature(t, g, 200.0, 0.02, 800.0, 1700.0, 0.2, moisture_percent={moisture})
 """
-WARM_UP = (_HEAT.format(bare=True), _HEAT.format(bare=False), _CONDUCTION)
+# the conduction model has two kernels: dry members with a constant conductivity, and the others
+WARM_UP = (_HEAT.format(bare=True), _HEAT.format(bare=False), _CONDUCTION.format(moisture=0.0),
+           _CONDUCTION.format(moisture=5.0))
 
 
 def _warm_numba_cache():

@@ -559,3 +559,30 @@ def test_first_crossing_after_a_dip():
     assert second_rise == 2 * n   # every member reaches the higher thresholds in the second fire
     # and some step into the crossing starts below the earlier peak (not at the running maximum)
     assert straddle >= 2
+
+
+def test_compile_notice_is_said_once_and_only_when_a_kernel_must_be_compiled(tmp_path, monkeypatch, capsys):
+    # issue 20 item 6: the first run after installing says on standard error, once, that it is compiling; a
+    # run that loads the kernels from numba's on-disk cache says nothing
+    import importlib
+
+    from steelfire.models import heat
+
+    (tmp_path / "tiny_kernel.py").write_text(
+        "import numba as nb\n\n\n@nb.njit(cache=True)\ndef total(a):\n    return a.sum()\n\n\n"
+        "@nb.njit(cache=True)\ndef largest(a):\n    return a.max()\n")
+    monkeypatch.syspath_prepend(str(tmp_path))
+    monkeypatch.setattr(heat, "_ANNOUNCED", set())
+    import tiny_kernel
+
+    a = np.ones(3)
+    assert heat._announce_compile(tiny_kernel.total, (a,)) is True
+    assert capsys.readouterr().err == heat.COMPILE_NOTICE + "\n"
+    assert heat._announce_compile(tiny_kernel.largest, (a,)) is False     # once per process
+    assert capsys.readouterr().err == ""
+    tiny_kernel.total(a)                                                     # compiled and written to the cache
+    monkeypatch.setattr(heat, "_ANNOUNCED", set())
+    fresh = importlib.reload(tiny_kernel)                                    # as a new process finds it
+    assert heat._announce_compile(fresh.total, (a,)) is False
+    assert capsys.readouterr().err == ""
+    assert heat._announce_compile(fresh.total, (np.ones(3, dtype=np.int32),)) is True   # other types: compiles

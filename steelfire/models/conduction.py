@@ -52,8 +52,9 @@ the bound on how far the cell can rise in that solve, so the update then leaves 
 below its solved temperature, hence at or below M (proof in docs/conduction.md). The steel has no
 update step (its lagged capacity is used as is).
 
-The batch kernel runs many members against many fires in one call, chunks of members side by side
-(the member loops innermost, branch-free) spread over the cores as in :mod:`steelfire.models.heat`.
+The batch kernels run many members against many fires, chunks of members side by side (the member
+loops innermost, branch-free), one compiled call per chunk, the chunks spread over the cores by a pool
+of threads (the kernels release the GIL); a run compiles only the kernels its members need.
 Dry members with a constant conductivity and the face at the gas temperature take a fast path: their
 matrix changes only in the steel's row, so the elimination factors of the layer are computed when
 the step length changes and each substep costs two passes over the cells (three multiplies or
@@ -70,7 +71,7 @@ import numpy as np
 
 from steelfire.errors import InputError
 from steelfire.models.heat import (BATCH_MATH, KELVIN, SPECIFIC_HEAT_TERMS, STEFAN_BOLTZMANN, _announce_compile,
-                                   _finish, _knots, _take_ticket, _track, heat_capacity_fraction)
+                                   _finish, _knots, _track, heat_capacity_fraction)
 from steelfire.models.steel import STEEL_DENSITY_KG_M3
 
 #: Latent heat of vaporisation of water at 100 C, 1 atm [J/kg] (steam tables, from memory: 2256.5 kJ/kg).
@@ -189,7 +190,6 @@ class ConductionResult(NamedTuple):
 # positive and every pivot exceeds its row's coupling, so no pivoting is needed.
 
 
-@nb.njit(cache=True, inline="always")
 def _chunking(n_m, nt, most):
     """(number of chunks, members per chunk): at most ``most`` members a chunk, a multiple of 4 (the
     lanes of an AVX2 vector), as many chunks as a multiple of the ``nt`` threads where that keeps them
@@ -253,7 +253,7 @@ def _grid_step_end(i, lo, w, ts, ts_prev, thr, pk, pki, ci, cx, cn, dl, hist, ke
             hist[i + 1, lo + j] = ts[j]
 
 
-@nb.njit(cache=True, error_model="numpy", fastmath=BATCH_MATH)
+@nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _fast_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_v, threshold_C, rho_a, n, substeps, lo, w,
                 keep_history, ca_k, peak, peak_t, cross, last, hist, prof):
     """Members lo .. lo + w - 1: dry, constant conductivity, face at the gas temperature.
@@ -374,7 +374,7 @@ def _water_update(th, wl, cap, x, tg, plat, cd, icd, tn, wn, bad, n, w):
             bad[j] = bad[j] | (on & (tn[c, j] > hi))
 
 
-@nb.njit(cache=True, error_model="numpy", fastmath=BATCH_MATH)
+@nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _general_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, latent_m3, threshold_C,
                    rho_a, n, substeps, wet, surface, alpha_c, eps_res, lo, w, keep_history, ca_k,
                    peak, peak_t, cross, last, hist, prof):
@@ -519,13 +519,18 @@ def _general_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v
             prof[c, lo + j] = th[c, j]
 
 
-@nb.njit(cache=True, parallel=True)
 def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, latent_m3,
                        threshold_C, rho_a, n, substeps, fast, wet, surface, alpha_c, eps_res, keep_history,
                        n_threads, chunk, ca_k):
-    """All members of one kind and resolution: chunks of members side by side, taken by the threads as
-    they finish one (as :mod:`steelfire.models.heat`). Returns peak, its time, crossing time, last
-    increment, history (T x N or 0 x 0), cells' temperatures at the end (n x N)."""
+    """All members of one kind and resolution: chunks of members side by side, taken by ``n_threads``
+    threads as they finish one. Returns peak, its time, crossing time, last increment, history (T x N or
+    0 x 0), cells' temperatures at the end (n x N).
+
+    Each chunk is one call of a compiled kernel that releases the GIL (:func:`_fast_chunk` for dry members
+    with a constant conductivity and the face at the gas, :func:`_general_chunk` for the others), so a run
+    compiles only the kernel its members need, and each is compiled once: a compiled parallel loop around
+    both would compile (and optimise) their code a second time, which made the first run after installing
+    about 15 s longer."""
     n_t = time_s.shape[0]
     n_m = apv.shape[0]
     peak = np.empty(n_m)
@@ -535,20 +540,29 @@ def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, l
     hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
     prof = np.empty((n, n_m))
     n_chunks, width = _chunking(n_m, n_threads, chunk)
-    tickets = np.zeros(1, dtype=np.int64)
-    for _worker in nb.prange(min(n_threads, n_chunks)):
-        c_ = _take_ticket(tickets)
-        while c_ < n_chunks:
-            lo = c_ * width
-            w = min(lo + width, n_m) - lo
-            if fast:
-                _fast_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_v, threshold_C, rho_a, n, substeps,
-                            lo, w, keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
-            else:
-                _general_chunk(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, latent_m3,
-                               threshold_C, rho_a, n, substeps, wet, surface, alpha_c, eps_res, lo, w, keep_history,
-                               ca_k, peak, peak_t, cross, last, hist, prof)
-            c_ = _take_ticket(tickets)
+    if fast:
+        kernel = _fast_chunk
+        before = (time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_v, threshold_C, rho_a, n, substeps)
+        after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
+    else:
+        kernel = _general_chunk
+        before = (time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, latent_m3, threshold_C,
+                  rho_a, n, substeps, wet, surface, alpha_c, eps_res)
+        after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
+    _announce_compile(kernel, before + (0, 1) + after)
+
+    def one(c):
+        lo = c * width
+        kernel(*before, lo, min(lo + width, n_m) - lo, *after)
+
+    if n_threads <= 1 or n_chunks <= 1:
+        for c in range(n_chunks):
+            one(c)
+    else:
+        from concurrent.futures import ThreadPoolExecutor
+
+        with ThreadPoolExecutor(min(n_threads, n_chunks)) as pool:
+            list(pool.map(one, range(n_chunks)))
     return peak, peak_t, cross, last, hist, prof
 
 
@@ -679,8 +693,8 @@ def run(inputs: ConductionInputs, cells=MIN_CELLS, substeps=1, surface: SurfaceB
     Notes
     -----
     Members are grouped by resolution and kind (dry with a constant conductivity and the face at the
-    gas temperature: the fast path; other dry members; wet members) and each group runs in one call
-    of the compiled kernel. The model and its scheme are described in the module docstring; the
+    gas temperature: the fast path; other dry members; wet members) and each group runs in chunks
+    through its compiled kernel. The model and its scheme are described in the module docstring; the
     kernel matches ``tests/twins_conduction.py`` to 1e-9 relative.
     """
     inp = inputs if checked else validate(inputs)
@@ -711,7 +725,6 @@ def run(inputs: ConductionInputs, cells=MIN_CELLS, substeps=1, surface: SurfaceB
                 np.ascontiguousarray(inp.conductivity[idx, :k]), inp.conductivity_n[idx], latent_m3[idx],
                 inp.threshold_C[idx], inp.steel_density_kg_m3, nc, ns, kd == 0, kd == 2, surf is not None,
                 alpha_c, eps, keep_history, n_threads, CHUNK_FAST if kd == 0 else CHUNK_GENERAL, SPECIFIC_HEAT_TERMS)
-        _announce_compile(_conduction_chunks, args, 60)
         out = _conduction_chunks(*args)
         peak[idx], peak_t[idx], cross[idx], last[idx] = out[0], out[1], out[2], out[3]
         if keep_history:

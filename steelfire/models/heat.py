@@ -411,30 +411,33 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
 
 #: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
 COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
-                  "(about {s} s; the conduction model's take up to a minute more) ...")
+                  "(10 to 30 s on a 2-core machine) ...")
 _ANNOUNCED = set()
 
 
-def _announce_compile(kernel, args, seconds):
-    """Tell the user, once per kernel and process, when a kernel has to be compiled (no cached machine
-    code for these argument types): the first run after installing pauses for many seconds otherwise."""
+def _announce_compile(kernel, args):
+    """Tell the user, once per process, when a kernel has to be compiled (no cached machine code for these
+    argument types): the first run after installing pauses for many seconds otherwise. Returns whether
+    the notice was written."""
     if kernel.signatures or kernel in _ANNOUNCED:
-        return
+        return False
     try:
         from numba import typeof
 
         types_ = tuple(typeof(a) for a in args)
         index = kernel._cache._cache_file._load_index()   # numba's on-disk index: (types, target) -> file
         if any(key[0] == types_ for key in index):
-            return
+            return False
     except Exception:  # the cache layout is numba's own: say nothing rather than fail
-        return
+        return False
     import sys
 
     _ANNOUNCED.add(kernel)
-    if not _ANNOUNCED - {kernel}:
-        sys.stderr.write(COMPILE_NOTICE.format(s=seconds) + "\n")
-        sys.stderr.flush()
+    if _ANNOUNCED - {kernel}:
+        return False
+    sys.stderr.write(COMPILE_NOTICE + "\n")
+    sys.stderr.flush()
+    return True
 
 
 def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_kg_m3: float,
@@ -478,7 +481,7 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
                 rad4_FT = np.ascontiguousarray(t4 * t4 * t4 * t4)
             args = (time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.alpha_c.astype(float),
                     float(emissivity_resultant), rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS)
-            _announce_compile(_bare_chunks, args, 10)
+            _announce_compile(_bare_chunks, args)
             res = _bare_chunks(*args)
         else:
             k = 1 if gi == 1 else int(lam_n[idx].max())
@@ -486,7 +489,7 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
                     r.specific_heat, np.ascontiguousarray(r.conductivity_C[:, :k]),
                     np.ascontiguousarray(r.conductivity[:, :k]), r.conductivity_n.astype(np.int64), r.moisture_delay_s,
                     rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
-            _announce_compile(_protected_chunks, args, 15)
+            _announce_compile(_protected_chunks, args)
             res = _protected_chunks(*args)
         for a_, b_ in zip(out[:5], res[:5]):
             a_[idx] = b_
