@@ -99,6 +99,10 @@ def _load(args):
         except ValueError:
             raise InputError("--time-step-s", args.time_step_s, "must be a number [s]") from None
         case = with_time_step(case, step)
+    # first run after installing: the kernels compiled side by side before the run, not one by one in it
+    from steelfire.models import kernels
+
+    kernels.prepare()
     return case
 
 

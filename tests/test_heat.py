@@ -586,3 +586,30 @@ def test_compile_notice_is_said_once_and_only_when_a_kernel_must_be_compiled(tmp
     assert heat._announce_compile(fresh.total, (a,)) is False
     assert capsys.readouterr().err == ""
     assert heat._announce_compile(fresh.total, (np.ones(3, dtype=np.int32),)) is True   # other types: compiles
+
+
+def test_kernels_prepared_ahead_are_the_ones_the_runs_use():
+    # tests/conftest.py had steelfire.models.kernels.prepare compile the kernels (as the CLI's first run
+    # does); a new process that checks office_bay (protected members: eq (4.27) and both conduction kernels)
+    # and office_floor (bare members too) must find every kernel it calls in the cache: no compile notice.
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    from steelfire.models import heat, kernels
+
+    assert kernels.missing() == []
+    root = Path(__file__).resolve().parents[1]
+    code = ("import io, contextlib\nfrom steelfire.cli import main\n"
+            "for c in ('office_bay', 'office_floor'):\n"
+            "    with contextlib.redirect_stdout(io.TextIOWrapper(io.BytesIO())):\n"
+            "        main(['check', f'cases/{c}.toml', '--json'])\n")
+    p = subprocess.run([sys.executable, "-c", code], cwd=root, capture_output=True, text=True, timeout=300)
+    assert heat.COMPILE_NOTICE not in p.stderr, p.stderr
+
+
+def test_unknown_kernel_name_is_refused():
+    from steelfire.models import kernels
+
+    with pytest.raises(ValueError, match="one of bare, protected"):
+        kernels.warm("conduction")

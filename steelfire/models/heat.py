@@ -415,11 +415,23 @@ COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machi
 _ANNOUNCED = set()
 
 
+def announce():
+    """Say :data:`COMPILE_NOTICE` on standard error, once per process. Returns whether it was said now."""
+    if _ANNOUNCED:
+        return False
+    import sys
+
+    _ANNOUNCED.add("notice")
+    sys.stderr.write(COMPILE_NOTICE + "\n")
+    sys.stderr.flush()
+    return True
+
+
 def _announce_compile(kernel, args):
-    """Tell the user, once per process, when a kernel has to be compiled (no cached machine code for these
-    argument types): the first run after installing pauses for many seconds otherwise. Returns whether
-    the notice was written."""
-    if kernel.signatures or kernel in _ANNOUNCED:
+    """Tell the user (:func:`announce`) when a kernel has to be compiled: no cached machine code for these
+    argument types; the first run after installing pauses for many seconds otherwise. Returns whether
+    the notice was said now."""
+    if kernel.signatures or _ANNOUNCED:
         return False
     try:
         from numba import typeof
@@ -430,14 +442,7 @@ def _announce_compile(kernel, args):
             return False
     except Exception:  # the cache layout is numba's own: say nothing rather than fail
         return False
-    import sys
-
-    _ANNOUNCED.add(kernel)
-    if _ANNOUNCED - {kernel}:
-        return False
-    sys.stderr.write(COMPILE_NOTICE + "\n")
-    sys.stderr.flush()
-    return True
+    return announce()
 
 
 def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_kg_m3: float,
