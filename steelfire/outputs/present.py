@@ -456,11 +456,42 @@ def shortfalls(doc) -> list:
     return out
 
 
+def design_fire_verdict(m) -> str | None:
+    """The design-fire verdict a table or figure shows for member entry ``m``: "pass", "FAIL", or
+    "marginal" where the member passes by less than the error estimated at half the time step
+    (|margin_C| < step_sensitivity_C): a pass within the numerical error is not one to sign. None: not
+    checked."""
+    p = m.get("passes")
+    if p is None:
+        return None
+    if not p:
+        return "FAIL"
+    err, margin = m.get("step_sensitivity_C"), m.get("margin_C")
+    if m.get("marginal") and is_number(err) and is_number(margin) and abs(margin) < err:
+        return "marginal"
+    return "pass"
+
+
+def period_verdict(m) -> str | None:
+    """The required-period verdict: "meets", "SHORT", or "marginal" where the standard-fire time to
+    critical is within step_sensitivity_min of the required period. None: no period required."""
+    p = m.get("meets_required_period")
+    if p is None:
+        return None
+    if not p:
+        return "SHORT"
+    err, t, req = m.get("step_sensitivity_min"), m.get("standard_fire_time_to_critical_min"), m.get("required_minutes")
+    if m.get("marginal") and is_number(err) and is_number(t) and is_number(req) and abs(t - req) < err:
+        return "marginal"
+    return "meets"
+
+
 def counts(doc) -> dict:
     """Verdict counts from the members (the document's summary where present says the same)."""
     ms = doc.get("members") or []
     return {"members": len(ms),
-            "pass": sum(1 for m in ms if m.get("passes") is True),
+            "pass": sum(1 for m in ms if design_fire_verdict(m) == "pass"),
+            "marginal": sum(1 for m in ms if m.get("marginal")),
             "fail": sum(1 for m in ms if m.get("passes") is False),
             "with_period": sum(1 for m in ms if m.get("meets_required_period") is not None),
             "short": sum(1 for m in ms if m.get("meets_required_period") is False),

@@ -26,7 +26,7 @@ def safe_text(text) -> str:
 _MEMBER_COLUMNS = ("name", "kind", "section_factor_per_m", "shadow_factor", "protection", "thickness_mm",
                    "utilisation", "critical_temperature_C", "critical_temperature_source",
                    "peak_steel_temperature_C", "time_of_peak_steel_min", "margin_C", "passes",
-                   "standard_fire_time_to_critical_min", "required_minutes", "meets_required_period")
+                   "standard_fire_time_to_critical_min", "required_minutes", "meets_required_period", "marginal")
 _EQUIV_COLUMNS = ("annex_f_min", "annex_f_small_compartment_min", "annex_f_k_c", "cib_w14_min",
                   "equal_temperature_min")
 _MEETS_ROUTES = ("annex_f", "cib_w14", "equal_temperature")

@@ -156,7 +156,7 @@ def _member_table(doc, width) -> list:
                      P.fmt(m.get("peak_steel_temperature_C"), "temperature", "-"),
                      P.fmt(m.get("time_of_peak_steel_min"), "time", "-"),
                      "-" if m.get("margin_C") is None else f"{m['margin_C']:+.1f}",
-                     {True: "pass", False: "FAIL", None: "-"}[m.get("passes")]])
+                     P.design_fire_verdict(m) or "-"])
     return _table(cols, rows, width)
 
 
@@ -183,7 +183,7 @@ def _equivalence_table(doc, width):
             text = "n/a" if v is None else P.fixed(v)
             row.append(text + ("*" if r in marks else ""))
         row.append(P.std_time_text(doc, e.get("equal_temperature_min")) if e else "-")
-        row.append({True: "meets", False: "SHORT", None: "-"}[m.get("meets_required_period")])
+        row.append(P.period_verdict(m) or "-")
         rows.append(row)
         for c in marks.values():
             notes.append(f"{m['name']}: {c['text']}.")

@@ -93,6 +93,13 @@ def text_cell(text, cls="txt"):
     return {"text": text, "key": None, "cls": cls}
 
 
+def verdict_cell(doc, key, word):
+    """A verdict cell: ``word`` from :func:`present.design_fire_verdict` / :func:`present.period_verdict`;
+    only pass and meets are shown as good (a marginal verdict is not one to sign)."""
+    cls = {"pass": "flag ok", "meets": "flag ok", None: "flag null"}.get(word, "flag bad")
+    return {"text": DASH if word is None else word, "key": key, "cls": cls}
+
+
 def flag_cell(doc, key, yes, no, none=DASH):
     v = get(doc, key)
     word = {True: yes, False: no}.get(v, none)
@@ -237,6 +244,8 @@ def _summary(doc, sizing):
               ("fail the design fire", c["fail"]),
               ("with a required standard-fire period", c["with_period"]),
               ("short of their required period under the standard fire", c["short"])]
+    if c["marginal"]:
+        counts.insert(2, ("within the numerical error: not established (marginal)", c["marginal"]))
     if rows:
         counts.append(("sizing not achievable", sum(1 for r in rows if r.achievable is False)))
     conflicts = [{"name": m["name"], "text": x["text"]} for m in doc["members"] for x in P.route_conflicts(doc, m)]
@@ -366,10 +375,10 @@ def _members(doc):
                          cell(doc, k + "time_of_peak_steel_min", "time"),
                          cell(doc, k + "critical_temperature_C", "temperature"),
                          cell(doc, k + "margin_C", "temperature"),
-                         flag_cell(doc, k + "passes", "pass", "FAIL"),
+                         verdict_cell(doc, k + "passes", P.design_fire_verdict(m)),
                          std_cell(doc, k + "standard_fire_time_to_critical_min"),
                          cell(doc, k + "required_minutes", "input"),
-                         flag_cell(doc, k + "meets_required_period", "meets", "SHORT")])
+                         verdict_cell(doc, k + "meets_required_period", P.period_verdict(m))])
     from markupsafe import Markup
 
     return {"input_head": [Markup(h) for h in head], "inputs": inputs, "verdicts": verdicts, "details": _details(doc),

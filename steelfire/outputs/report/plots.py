@@ -46,9 +46,11 @@ EQUAL_T = "#dd9c2c"       # amber
 SMALL_COMPARTMENT = "#7d9fc0"  # light steel blue, dotted
 SECOND_MODEL = "#5b8a3c"  # moss green, dashed: the other protected-steel model
 MARKER = INK
-#: Verdict marks of members drawn at their positions: shape and colour both tell pass from FAIL.
+#: Verdict marks of members drawn at their positions: shape and colour both tell pass from FAIL and from a
+#: pass within the numerical error (marginal).
 PASS_MARK = {"marker": "o", "color": STEEL, "ms": 6.5}
 FAIL_MARK = {"marker": "X", "color": DESIGN_FIRE, "ms": 8.5}
+MARGINAL_MARK = {"marker": "D", "color": EQUAL_T, "ms": 6.5}
 #: Colours and dashes of the fires of a travelling family (one line each), distinct in grey print too.
 FAMILY_STYLES = ((DESIGN_FIRE, "-"), (STEEL, (0, (5, 2))), (EQUAL_T, (0, (1, 1.5))), (SECOND_MODEL, "-."),
                  (STANDARD, (0, (8, 2, 1, 2))), (SMALL_COMPARTMENT, "-"))
@@ -312,18 +314,25 @@ def design_fire_figure(doc, result):
 # (a') localised and travelling fires: heat release, and where the members stand
 
 
-def _verdict_mark(passes) -> dict:
-    return dict(PASS_MARK if passes else FAIL_MARK)
+def _verdict(m) -> str:
+    """A member's design-fire verdict word (:func:`steelfire.outputs.present.design_fire_verdict`)."""
+    from steelfire.outputs import present
+
+    return present.design_fire_verdict(m) or "-"
 
 
-def _verdict_handles(passes):
+def _verdict_mark(word) -> dict:
+    return dict({"pass": PASS_MARK, "marginal": MARGINAL_MARK}.get(word, FAIL_MARK))
+
+
+def _verdict_handles(words):
     """Legend handles of the verdict marks present (a list of (handle, label))."""
     from matplotlib.lines import Line2D
 
     out = []
-    for ok, word in ((True, "pass"), (False, "FAIL")):
-        if ok in passes:
-            mk = _verdict_mark(ok)
+    for word in ("pass", "marginal", "FAIL"):
+        if word in words:
+            mk = _verdict_mark(word)
             out.append((Line2D([], [], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"],
                                markeredgecolor=INK, markeredgewidth=0.5), f"member, {word}"))
     return out
@@ -427,18 +436,18 @@ def plan_view_figure(doc, result, idx, note):
         m = ms[i]
         x, y = xs[i], row + 0.5
         ax.plot([x, x], [0.0, n], color=STANDARD, lw=0.6, ls=(0, (1, 2)), zorder=2)
-        mk = _verdict_mark(m["passes"])
+        mk = _verdict_mark(_verdict(m))
         ax.plot([x], [y], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"], markeredgecolor=INK,
                 markeredgewidth=0.5, zorder=4, clip_on=False, gid=f"member-{i}")
         k = gov[i]
         size = short[k] if k is not None and k < len(short) else "governing fire not named"
-        tail = f": {size}, {'pass' if m['passes'] else 'FAIL'}"
+        tail = f": {size}, {_verdict(m)}"
         right = x <= 0.5 * length
         room = ((length - x) if right else x) / length * axes_in - 0.2
         name = _fit(m["name"], max(room - _text_width_in(tail, 7.5), 0.3), 7.5)
         ax.annotate(name + _mpl_text(tail), xy=(x, y), xytext=(7 if right else -7, 0), textcoords="offset points",
                     ha="left" if right else "right", va="center", fontsize=7.5, zorder=5,
-                    fontweight="normal" if m["passes"] else "bold")
+                    fontweight="normal" if _verdict(m) == "pass" else "bold")
     others = [i for i in range(len(ms)) if i not in set(idx)]
     if others:
         ax.plot(xs[others], np.full(len(others), -0.3), ls="none", marker="|", ms=8, color=STANDARD, clip_on=False,
@@ -456,7 +465,7 @@ def plan_view_figure(doc, result, idx, note):
     ax.grid(axis="y", visible=False)
     ax.spines["left"].set_visible(False)
     ax.set_xlabel(f"position along the floor x [m] (length L = {_fmt(length, 'input')} m)")
-    handles = _verdict_handles({m["passes"] for m in (ms[i] for i in order)})
+    handles = _verdict_handles({_verdict(m) for m in (ms[i] for i in order)})
     handles += list(zip(*ax.get_legend_handles_labels())) if others else []
     if handles:
         fig.legend([h for h, _ in handles], [lab for _, lab in handles], loc="outside upper center",
@@ -528,7 +537,7 @@ def height_profile_figure(doc, result, idx, note):
     keyed, marks, on_axis = [], {}, {}
     for no, i in enumerate(shown, start=1):
         m = ms[i]
-        mk = _verdict_mark(m["passes"])
+        mk = _verdict_mark(_verdict(m))
         ax_g.plot([rs[i]], [zs[i]], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"],
                   markeredgecolor=INK, markeredgewidth=0.5, zorder=5, clip_on=False, gid=f"member-{i}")
         marks.setdefault((float(rs[i]), float(zs[i])), []).append(no)
@@ -538,7 +547,7 @@ def height_profile_figure(doc, result, idx, note):
                       markeredgecolor=INK, markeredgewidth=0.5, zorder=5, clip_on=False)
             on_axis.setdefault((th, float(zs[i])), []).append(no)
         head = f"{no}  "
-        tail = f": r {_fmt(rs[i], 'input')} m, z {_fmt(zs[i], 'input')} m, {'pass' if m['passes'] else 'FAIL'}"
+        tail = f": r {_fmt(rs[i], 'input')} m, z {_fmt(zs[i], 'input')} m, {_verdict(m)}"
         room = KEY_COLUMN_IN - _text_width_in(head + tail, 7.5)
         keyed.append((Line2D([], [], ls="none", marker=mk["marker"], color=mk["color"], ms=mk["ms"] * 0.9,
                              markeredgecolor=INK, markeredgewidth=0.5),
@@ -678,7 +687,7 @@ def steel_temperatures_figure(doc, result, idx, note):
         ax.axvline(d["time_of_peak_steel_min"], color=INK, lw=0.7, ls=(0, (1, 2)))
         ax.plot([d["time_of_peak_steel_min"]], [d["peak_steel_temperature_C"]], marker="v", ms=5, color=INK,
                 ls="none", label="peak steel", clip_on=False, zorder=5)
-        verdict = "pass" if d["passes"] else "FAIL"
+        verdict = _verdict(d)
         title = (f"{_fit(d['name'], title_in, 8.0, title_weight)}\n"
                  f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}")
         if gov is not None:
