@@ -275,3 +275,11 @@ def test_a_pass_within_the_numerical_error_is_shown_as_marginal_not_pass(docs):
     assert present.period_verdict(m) == "marginal"
     m.update(required_minutes=15.0)
     assert present.period_verdict(m) == "meets"
+
+
+def test_a_proposed_thickness_whose_verdict_is_within_the_numerical_error_is_not_proposed_ok():
+    # in a sizing document the member entries are at the chosen thickness: a marginal one is not a design to sign
+    m = {"name": "B1", "passes": True, "meets_required_period": True, "marginal": False,
+         "sizing": {"achievable": True, "chosen_mm": 20.0}}
+    assert present._proposed_ok(m) is True
+    assert present._proposed_ok({**m, "marginal": True}) is False

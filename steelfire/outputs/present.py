@@ -351,7 +351,8 @@ class SizingRow:
 
 def _proposed_ok(m) -> bool:
     s = m.get("sizing") or {}
-    return bool(s.get("achievable")) and m.get("passes") is True and m.get("meets_required_period") is not False
+    return (bool(s.get("achievable")) and m.get("passes") is True and m.get("meets_required_period") is not False
+            and not m.get("marginal"))   # the entry is at the chosen thickness: a verdict within the error is not one
 
 
 def sizing_rows(doc) -> list:
