@@ -15,6 +15,9 @@ SI forms with Q in kW convert to the annex's Q in W as follows (hand calculation
   sum taken as at most 100 kW/m2;
 * scope, C(10) as remembered: D <= 10 m and Q <= 50 MW. The annex states it beside the ceiling-flux
   rules; this module applies it to the plume too (the same correlations' test range).
+* beside the fire (r > D/2), outside the annex: Heskestad's radial profile of the plume (from memory,
+  his plume chapter of the SFPE Handbook): the temperature rise falls to half its axis value at
+  b = 0.12 (T_0 / T_inf)^(1/2) (z - z_0), Gaussian in r; measured here from the fire's edge.
 
 Symbols: Q heat release [W] (E.4 or a table), D fire diameter [m], H height of the ceiling above the
 fire source [m], z height above the fire source [m], r horizontal distance from the fire axis [m].
@@ -60,11 +63,16 @@ TOTAL_FLUX_MAX_W_M2 = 100e3
 #: Scope of Annex C, C(10) (from memory): fire diameter and heat release.
 DIAMETER_MAX_M = 10.0
 HEAT_RELEASE_MAX_W = 50e6
+#: Plume half-temperature radius b = 0.12 (T_0 / T_inf)^(1/2) (z - z_0) [m], Heskestad (from memory).
+PLUME_RADIUS_COEFFICIENT = 0.12
+#: Ambient of the plume correlations [K] (20 C, as eq (C.2)).
+PLUME_AMBIENT_K = 293.0
 
 #: What set a member's exposure at each time step (``LocalisedExposure.governing``).
 GOVERNING = ("plume axis, eq (C.2)", "ceiling jet, Alpert 1972 (bound off the axis)",
-             "ceiling flux, eq (C.4)", "plume or jet bound on the ceiling flux")
-PLUME, JET, CEILING_FLUX, BOUND = range(4)
+             "ceiling flux, eq (C.4)", "plume or jet bound on the ceiling flux",
+             "plume beside the fire, Heskestad's radial profile from the fire's edge")
+PLUME, JET, CEILING_FLUX, BOUND, PLUME_SIDE = range(5)
 
 
 def flame_length_m(heat_release_W, diameter_m):
@@ -142,6 +150,39 @@ def plume_limit_height_m(heat_release_W, diameter_m, convective_fraction=CONVECT
     q = np.asarray(heat_release_W, dtype=float)
     rise = PLUME_COEFFICIENT * (convective_fraction * q) ** (2.0 / 3.0) / (PLUME_MAX_C - 20.0)
     return virtual_origin_m(q, diameter_m) + rise ** 0.6
+
+
+def plume_beside_temperature_C(distance_m, height_m, heat_release_W, diameter_m,
+                               convective_fraction=CONVECTIVE_FRACTION):
+    """Gas temperature [C] of the plume beside the fire, at ``distance_m`` > D/2 from its axis.
+
+    Not in Annex C, which gives the plume on its axis only (eq (C.2)). Heskestad's radial profile (from
+    memory): the rise over ambient falls as a Gaussian with half its axis value at the radius
+    b = 0.12 (T_0 / T_inf)^(1/2) (z - z_0) [m], T_0 the axis temperature [K] at z (eq (C.2), capped at
+    900 C), T_inf = 293 K, z_0 by eq (C.3). The profile is measured from the fire's edge, not its axis:
+    theta = 20 + (theta(z) - 20) 2^(-(rho / b)^2), rho = max(r - D/2, 0), so it joins the axis value
+    used above the fire (r <= D/2) and is hotter than the axis-centred profile for every r. At or below
+    the virtual origin (z <= z_0) the plume has no width there: 20 C. Same validity as eq (C.2).
+
+    Examples
+    --------
+    Hand calculation, Q = 2 MW, D = 1 m, z = 4 m, r = 0.6 m: Q^(2/5) = 331.445, z_0 = -1.02 + 0.00524 x
+    331.445 = 0.71677, z - z_0 = 3.28323; eq (C.2): 0.25 x (1.6e6)^(2/3) x 3.28323^(-5/3) = 0.25 x
+    13 679.8 x 0.137879 = 471.54 K; b = 0.12 x (764.54 / 293)^(1/2) x 3.28323 = 0.12 x 1.61535 x 3.28323
+    = 0.63643 m; rho = 0.1 m, 2^(-(0.1 / 0.63643)^2) = 2^(-0.024689) = 0.98303; 20 + 471.54 x 0.98303 =
+    483.5 C.
+
+    >>> round(float(plume_beside_temperature_C(0.6, 4.0, 2e6, 1.0)), 1)
+    483.5
+    """
+    r = np.asarray(distance_m, dtype=float)
+    axis = plume_temperature_C(height_m, heat_release_W, diameter_m, convective_fraction)
+    dz = np.asarray(height_m, dtype=float) - virtual_origin_m(heat_release_W, diameter_m)
+    b = PLUME_RADIUS_COEFFICIENT * np.sqrt((axis + 273.0) / PLUME_AMBIENT_K) * dz
+    rho = np.maximum(r - 0.5 * diameter_m, 0.0)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        share = np.where(dz > 0.0, np.exp2(-(rho / np.where(dz > 0.0, b, 1.0)) ** 2), 0.0)
+    return 20.0 + (axis - 20.0) * np.where(rho > 0.0, share, 1.0)
 
 
 def horizontal_flame_length_m(heat_release_W, ceiling_height_m):
@@ -319,10 +360,13 @@ def member_exposure(time_s, heat_release_W, diameter_m, ceiling_height_m, distan
 
     * r <= D/2 (above the fire): theta(z) of eq (C.2) at the member's height (the axis value, the
       hottest of the plume at that height, for the whole footprint of the fire);
-    * r > D/2: Alpert's ceiling-jet temperature at r (:mod:`ceilingjet`, total Q, H), whatever the
-      member's height, capped at theta(H) of eq (C.2) (the plume that feeds the jet). Outside the plume
-      the jet under the ceiling is the hottest gas before a smoke layer forms; taking it at every
-      height overstates it for members lower down.
+    * r > D/2: the larger of Alpert's ceiling-jet temperature at r (:mod:`ceilingjet`, total Q, H),
+      whatever the member's height, capped at theta(H) of eq (C.2) (the plume that feeds the jet), and
+      the plume beside the fire at the member's height (:func:`plume_beside_temperature_C`, Heskestad's
+      radial profile from the fire's edge). The plume widens with height, so a member just beside a
+      small fire is inside it; the jet alone (a ceiling-level value) understated that by hundreds of
+      degrees. Outside the plume the jet under the ceiling is the hottest gas before a smoke layer
+      forms; taking it at every height overstates it for members lower down.
 
     Flame reaching the ceiling (L_f >= H) -> an incident heat flux, the larger of:
 
@@ -386,9 +430,11 @@ def member_exposure(time_s, heat_release_W, diameter_m, ceiling_height_m, distan
         gas = plume_temperature_C(z, q, d, convective_fraction)
         gas_rule = PLUME
     else:
-        gas = np.minimum(ceilingjet.ceiling_jet_temperature_C(r, q, h),
+        jet = np.minimum(ceilingjet.ceiling_jet_temperature_C(r, q, h),
                          plume_temperature_C(h, q, d, convective_fraction))
-        gas_rule = JET
+        side = plume_beside_temperature_C(r, z, q, d, convective_fraction)
+        gas = np.maximum(jet, side)
+        gas_rule = np.where(side > jet, PLUME_SIDE, JET)
     annex_flux = ceiling_flux_W_m2(r, q, d, h)
     bound_flux = surface.surface_flux_W_m2(gas, alpha_c, emissivity)
     flux = np.maximum(annex_flux, bound_flux)
@@ -496,9 +542,10 @@ def design_fire(setup: FireSetup) -> DesignFire:
               "largest_flame_length_m": lf, "flame_reaches_ceiling": "yes" if lf >= h else "no",
               "heat_release_source": source}
     warnings = ["Localised fire (EN 1991-1-2 Annex C): each member's exposure follows steelfire's rule for its "
-                "position (plume axis within D/2, the ceiling jet beyond, the larger of the annex's flux and that "
-                "bound where the flame reaches the ceiling); a hot smoke layer and flame radiation to a member "
-                "beside the fire are not included: check them separately (EN 1991-1-2 3.3.2)."]
+                "position (plume axis within D/2; beyond, the larger of the ceiling jet and the plume spreading "
+                "beside the fire; the larger of the annex's flux and that bound where the flame reaches the "
+                "ceiling); a hot smoke layer and flame radiation to a member beside the fire are not included: "
+                "check them separately (EN 1991-1-2 3.3.2)."]
     return DesignFire(curve="localised", gas_temperature_C=gas, alpha_c=alpha_c, cools=True,
                       key_times_s=tuple(hr.key_times_s), values=values, quantities=QUANTITIES, warnings=warnings,
                       out_of_scope=oos, equivalence=EQUIVALENCE_NOTE, exposure=exposure, series=series)
