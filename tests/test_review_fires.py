@@ -185,3 +185,40 @@ def test_adiabatic_surface_temperature_hand_bracket_and_brentq():
     kernel = 35.0 * (t - 300.0) + 0.7 * 5.67e-8 * ((t + 273.0) ** 4 - 573.0 ** 4)
     assert kernel == pytest.approx(float(surface.net_flux_W_m2(5e4, 300.0)), rel=1e-9)
     assert math.isfinite(kernel)
+
+
+# ---- finding: a localised fire the compartment's openings cannot feed was run as fuel-controlled ------
+
+def test_ventilation_controlled_plateau_hand_value():
+    # EN 1991-1-2 E.4(7) (from memory): Q_max = 0.10 m H_u A_v sqrt(h_eq) [MW], H_u = 17.5 MJ/kg, m = 0.8;
+    # hand calculation, A_v = 4 m2, h_eq = 2 m: 0.10 x 0.8 x 17.5 x 4 x 1.414214 = 7.9196 MW
+    assert heatrelease.ventilation_controlled_heat_release_W(4.0, 2.0) == pytest.approx(7.9196e6, rel=1e-5)
+    # A_v = 2 m2, h_eq = 2.1 m: 0.10 x 0.8 x 17.5 x 2 x 1.449138 = 4.0576 MW
+    assert heatrelease.ventilation_controlled_heat_release_W(2.0, 2.1) == pytest.approx(4.0576e6, rel=1e-4)
+
+
+def _setup(severity, allow=False):
+    from steelfire.codevalues import DEFAULTS
+    from steelfire.models.fire.design import FireSetup
+
+    # a 5 MW plateau held from 10 to 30 min (invented demo table), D = 2 m, H = 5 m
+    table = heatrelease.tabulated_heat_release([0.0, 10.0, 30.0, 40.0], [0.0, 5.0, 5.0, 0.0])
+    return FireSetup(curve="localised", duration_min=60.0, code=DEFAULTS, allow_out_of_scope=allow,
+                     severity=severity, heat_release=table,
+                     options={"diameter_m": 2.0, "ceiling_height_m": 5.0},
+                     positions=({"distance_m": 0.0, "height_m": 5.0},))
+
+
+def test_localised_fire_the_openings_cannot_feed_is_refused():
+    """A 5 MW localised fire in a room whose door (A_v = 2 m2, h_eq = 2.1 m) feeds at most 4.06 MW
+    (hand value above, E.4(7)): ventilation-controlled (E.4(6)), a compartment fire, not a localised one
+    (EN 1991-1-2 3.3.1, from memory). Refused; computed with the finding on record when allowed; a
+    4 m2 x 2 m opening (7.92 MW) lets it through; no compartment, no check."""
+    small = {"vertical_opening_area_m2": 2.0, "opening_height_m": 2.1}
+    with pytest.raises(OutOfScopeError) as err:
+        lo.design_fire(_setup(small))
+    assert "4.06 MW" in str(err.value)
+    fire = lo.design_fire(_setup(small, allow=True))
+    assert any("E.4(7)" in note for note in fire.out_of_scope)
+    assert lo.design_fire(_setup({"vertical_opening_area_m2": 4.0, "opening_height_m": 2.0})).out_of_scope == []
+    assert lo.design_fire(_setup(None)).out_of_scope == []

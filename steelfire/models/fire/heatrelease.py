@@ -8,8 +8,11 @@ Annex E.4 (paragraph numbers from memory of EN 1991-1-2:2002):
   heat release per unit area of a fuel-controlled fire [kW/m2];
 * E.4(4), (5): the decay starts when 70 % of the fire load q_f,d A_fi has burnt and is linear down to
   zero when all of it has burnt;
-* E.4(6), (7) (ventilation-controlled fires: a lower plateau, a longer fire) are not implemented: the
-  curve here is the fuel-controlled one, as the localised and travelling fires that use it assume.
+* E.4(6), (7) (ventilation-controlled fires: a lower plateau, a longer fire): the curve here is the
+  fuel-controlled one, as the localised and travelling fires that use it assume. The plateau the
+  openings allow, Q_max = 0.10 m H_u A_v sqrt(h_eq) [MW] (:func:`ventilation_controlled_heat_release_W`),
+  is given so that a model can refuse a fire the openings cannot feed; the reduced, extended curve
+  itself is not implemented.
 
 A small fire load can be 70 % consumed before the growth reaches Q_max (``fuel_limited``): the decay
 then starts at that moment from the Q the growth has reached, and still releases the last 30 %.
@@ -31,6 +34,14 @@ from steelfire.errors import InputError
 REFERENCE_HEAT_RELEASE_W = 1.0e6
 #: Share of the fire load burnt when the decay starts [-], EN 1991-1-2 E.4(4) (from memory).
 DECAY_START_FRACTION = 0.7
+
+#: Coefficient of the ventilation-controlled plateau [kg/(s m^(5/2))], EN 1991-1-2 E.4(7) (from memory):
+#: Q_max = 0.10 m H_u A_v sqrt(h_eq) [MW].
+VENTILATION_COEFFICIENT = 0.10
+#: Net calorific value of wood H_u [MJ/kg], EN 1991-1-2 E.4(7) (from memory).
+WOOD_CALORIFIC_VALUE_MJ_KG = 17.5
+#: Combustion factor m [-] of E.4(7), 0.8 by EN 1991-1-2 E.3(2) (from memory).
+COMBUSTION_FACTOR = 0.8
 
 #: Growth rate -> t_alpha [s], the time to reach 1 MW. Slow 600, medium 300, fast 150 s: EN 1991-1-2
 #: Table E.5 (from memory). Ultra-fast 75 s: the fourth class of the same t-squared family in common
@@ -123,6 +134,28 @@ def t_squared_heat_release_W(time_s, growth_time_s):
     t = as_times_s(time_s)
     ta = _positive("growth_time_s", growth_time_s, "s")
     return REFERENCE_HEAT_RELEASE_W * (t / ta) ** 2
+
+
+def ventilation_controlled_heat_release_W(opening_area_m2, opening_height_m, combustion_factor=COMBUSTION_FACTOR):
+    """Largest heat release [W] the openings can feed, EN 1991-1-2 E.4(7) (from memory).
+
+    Q_max = 0.10 m H_u A_v sqrt(h_eq) [MW], H_u = 17.5 MJ/kg (wood), m the combustion factor (0.8),
+    A_v the vertical opening area [m2], h_eq their weighted height [m] (EN 1991-1-2 A.(3)). A fuel-
+    controlled plateau RHR_f A_fi above it means the fire is ventilation-controlled (E.4(6)).
+
+    Examples
+    --------
+    Hand calculation, A_v = 4 m2, h_eq = 2 m: 0.10 x 0.8 x 17.5 x 4 x 1.414214 = 7.9196 MW.
+
+    >>> round(ventilation_controlled_heat_release_W(4.0, 2.0) / 1e6, 4)
+    7.9196
+    """
+    if isinstance(opening_area_m2, bool) or not isinstance(opening_area_m2, (int, float, np.floating)) \
+            or not math.isfinite(opening_area_m2) or opening_area_m2 < 0:
+        raise InputError("opening_area_m2", opening_area_m2, "must be a finite number >= 0 [m2]")
+    h = _positive("opening_height_m", opening_height_m, "m")
+    m = _positive("combustion_factor", combustion_factor, "-")
+    return VENTILATION_COEFFICIENT * m * WOOD_CALORIFIC_VALUE_MJ_KG * float(opening_area_m2) * math.sqrt(h) * 1e6
 
 
 @dataclass(frozen=True)

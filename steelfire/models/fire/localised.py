@@ -31,7 +31,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from steelfire.errors import InputError, OutOfScopeError
-from steelfire.models.fire import ceilingjet, surface
+from steelfire.models.fire import ceilingjet, heatrelease, surface
 from steelfire.models.fire.heatrelease import as_times_s
 
 #: Flame length, eq (C.1): L_f = FLAME_DIAMETER_FACTOR D + FLAME_LENGTH_COEFFICIENT Q^(2/5) [m], Q [W].
@@ -475,11 +475,34 @@ EQUIVALENCE_NOTE = ("a localised fire is not a fully developed compartment fire,
                     "Annex F and CIB W14 were derived for.")
 
 
+def ventilation_violation(peak_heat_release_W, severity, fire_load=None):
+    """(field, value, allowed) where the compartment's openings cannot feed the fire, else None.
+
+    EN 1991-1-2 E.4(6), (7) (from memory): a heat release above Q_max = 0.10 m H_u A_v sqrt(h_eq)
+    (:func:`heatrelease.ventilation_controlled_heat_release_W`) is ventilation-controlled; its plateau is
+    lower and the fire longer, and a fire the openings limit is a compartment fire, not a localised one
+    (EN 1991-1-2 3.3.1: a localised fire where flashover is unlikely). Without a compartment
+    (``severity`` None, or no openings given) nothing is checked. m is the fire load's combustion
+    factor (0.8 by default).
+    """
+    if not severity or severity.get("vertical_opening_area_m2") is None or not severity.get("opening_height_m"):
+        return None
+    m = getattr(fire_load, "combustion_factor", None) or heatrelease.COMBUSTION_FACTOR
+    q_vent = heatrelease.ventilation_controlled_heat_release_W(float(severity["vertical_opening_area_m2"]),
+                                                               float(severity["opening_height_m"]), m)
+    if peak_heat_release_W <= q_vent:
+        return None
+    return ("heat release Q [MW]", round(peak_heat_release_W / 1e6, 3),
+            f"the compartment's openings feed at most {q_vent / 1e6:.3g} MW (EN 1991-1-2 E.4(7): 0.10 m H_u A_v "
+            "sqrt(h_eq)); a ventilation-controlled fire is a compartment fire, not a localised one")
+
+
 def design_fire(setup: FireSetup) -> DesignFire:
     """A localised fire of EN 1991-1-2 Annex C as a design fire: the heat release of Annex E.4 (or the case's
     table), each member's exposure at its position by :func:`member_exposure` (its gas temperature, or the
     adiabatic surface temperature of its heat flux), alpha_c = 35 W/(m2 K) (C.(10)) and the code's
-    emissivities; the annex's scope (D, Q) enforced unless allow_out_of_scope.
+    emissivities; the annex's scope (D, Q) and, where the case gives a compartment, the ventilation limit
+    of E.4(7) (:func:`ventilation_violation`) enforced unless allow_out_of_scope.
 
     Its ``series(time_s)`` holds, for the report's figures, the heat release Q [MW] and the flame length
     L_f of eq (C.1) [m] on the run's grid, and each member's position (``member_distance_m`` r,
@@ -498,7 +521,7 @@ def design_fire(setup: FireSetup) -> DesignFire:
     eps = setup.emissivity_resultant
     source = "table" if hr is not None else "EN 1991-1-2 E.4"
     if hr is None:
-        from steelfire.models.fire import fireload, heatrelease
+        from steelfire.models.fire import fireload
 
         area = setup.compartment.floor_area_m2 if setup.compartment is not None else None
         qfd, _ = fireload.design_density(fl, area, setup.code)
@@ -510,6 +533,12 @@ def design_fire(setup: FireSetup) -> DesignFire:
         if not setup.allow_out_of_scope:
             raise OutOfScopeError(field, value, allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
         oos.append(f"OUT OF SCOPE of EN 1991-1-2 Annex C: {field} = {value!r}; {allowed}")
+    violation = ventilation_violation(q_peak, setup.severity, fl)
+    if violation is not None:
+        field, value, allowed = violation
+        if not setup.allow_out_of_scope:
+            raise OutOfScopeError(field, value, allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
+        oos.append(f"OUT OF SCOPE of a localised fire: {field} = {value!r}; {allowed}")
     positions = [(p["distance_m"], p["height_m"]) for p in setup.positions]
     for i, (r, z) in enumerate(positions):
         if z > h:
