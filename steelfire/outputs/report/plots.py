@@ -581,7 +581,8 @@ def height_profile_figure(doc, result, idx, note):
            f"z_0 of eq (C.3), at most 900 °C) up to the ceiling H = {_fmt(h, 'input')} m, with the flame tip "
            f"L_f = {_fmt(lf)} m of eq (C.1). Right: the members at their distance r from the fire axis and height z "
            "above the fire source, marked by verdict and numbered as in the key; within D/2 of the axis a member "
-           "sees the plume at its height (also marked on the left), further out the ceiling jet (steelfire's rule)")
+           "sees the plume at its height (also marked on the left), further out the larger of the ceiling jet and the "
+           "plume spreading beside the fire at its height (steelfire's rule)")
     if reaches:
         cap += (f". The flame reaches the ceiling (L_f = {_fmt(lf)} m >= H = {_fmt(h, 'input')} m): eq (C.2) does "
                 "not apply there (dashed, for reference only); the heat flux at the ceiling of eq (C.4)-(C.8) governs "
@@ -713,7 +714,8 @@ def steel_temperatures_figure(doc, result, idx, note):
         cap = ("Steel temperature of each member in its own exposure (EN 1993-1-2 4.2.5), its critical temperature "
                "(dashed) and the time of its peak (dotted). Pale: the gas temperature the member's calculation was "
                "given at its position by steelfire's rule for EN 1991-1-2 Annex C (on the plume axis, eq (C.2), "
-               "within D/2 of the fire axis; the ceiling jet beyond; where the flame reaches the ceiling, the "
+               "within D/2 of the fire axis; beyond, the larger of the ceiling jet and the plume spreading beside the "
+               "fire; where the flame reaches the ceiling, the "
                "adiabatic surface temperature of the heat flux of eq (C.4), which gives the net flux of eq (C.9))")
     elif curve == "travelling":
         cap = ("Steel temperature of each member in its own exposure (EN 1993-1-2 4.2.5), its critical temperature "
