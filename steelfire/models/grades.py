@@ -6,7 +6,9 @@ the range) by nominal thickness, as the product standards tabulate them:
 * S235, S275, S355: EN 10025-2 (non-alloy structural steels), Table 7 rows;
 * S420, S460: EN 10025-4 (thermomechanical rolled, grades M/ML), whose thickness bands reach
   120 mm; the normalised grades N/NL of EN 10025-3 differ from 63 mm up (S420N 370 / 360 against
-  S420M 380 / 370 at 63-80 / 80-100 mm) and are not tabulated here.
+  S420M 380 / 370 at 63-80 / 80-100 mm) and are not tabulated here: a grade named with an N or NL
+  quality (S420N, S460NL, ...) is given the rows up to 63 mm, where the two standards agree, and is
+  refused (OutOfScopeError) above, rather than given the higher M/ML strengths.
 
 EVERY ROW WAS ENTERED FROM MEMORY, not copied from the standards: check the rows used against the
 current editions (and the national annex to EN 1993-1-1 3.2.1, which may prescribe EN 1993-1-1
@@ -32,6 +34,7 @@ __all__ = [
     "SHEAR_MODULUS_MPA",
     "GRADES",
     "GRADE_SOURCES",
+    "NORMALISED_LIMIT_MM",
     "SteelStrength",
     "grade_names",
     "steel_strength",
@@ -68,6 +71,10 @@ GRADES = {
     "S460": ((16.0, 460.0, 540.0), (40.0, 440.0, 540.0), (63.0, 430.0, 530.0), (80.0, 410.0, 510.0),
              (100.0, 400.0, 500.0), (120.0, 385.0, 490.0)),
 }
+
+#: Grades whose normalised qualities N/NL (EN 10025-3) share the tabulated M/ML rows only up to this
+#: thickness [mm] (from memory: S420N 370 / 360 MPa against S420M 380 / 370 at 63-80 / 80-100 mm).
+NORMALISED_LIMIT_MM = {"S420": 63.0, "S460": 63.0}
 
 #: Where each grade's rows come from (all entered from memory).
 GRADE_SOURCES = {
@@ -111,6 +118,11 @@ def grade_names() -> tuple:
 
 
 def _grade_key(grade) -> str:
+    return _grade_and_suffix(grade)[0]
+
+
+def _grade_and_suffix(grade):
+    """(grade name, quality suffix) of ``grade``, e.g. ("S420", "NL") for ``"s420nl"``."""
     if not isinstance(grade, str):
         raise InputError("steel_grade", grade, "one of " + ", ".join(GRADES))
     key = grade.strip().upper()
@@ -119,7 +131,7 @@ def _grade_key(grade) -> str:
     for name in GRADES:
         suffix = key[len(name):]
         if key.startswith(name) and (suffix == "" or (suffix[0].isalpha() and suffix.isalnum())):
-            return name
+            return name, suffix
     raise InputError("steel_grade", grade, "one of " + ", ".join(GRADES)
                      + " (a quality suffix such as J2 or M may follow)")
 
@@ -136,7 +148,8 @@ def steel_strength(grade: str, thickness_mm: float) -> SteelStrength:
     InputError
         Unknown grade (field ``steel_grade``) or a thickness that is not a positive number.
     OutOfScopeError
-        A thickness above the thickest band of the grade.
+        A thickness above the thickest band of the grade; S420 or S460 of quality N/NL
+        (EN 10025-3) thicker than 63 mm (not tabulated; the M/ML rows would overstate f_y).
 
     Examples
     --------
@@ -145,11 +158,15 @@ def steel_strength(grade: str, thickness_mm: float) -> SteelStrength:
     >>> steel_strength("S275J2", 10.7).f_y_MPa      # IPE 300 flange
     275.0
     """
-    name = _grade_key(grade)
+    name, suffix = _grade_and_suffix(grade)
     if isinstance(thickness_mm, bool) or not isinstance(thickness_mm, numbers.Real) \
             or not math.isfinite(thickness_mm) or thickness_mm <= 0.0:
         raise InputError("thickness_mm", thickness_mm, "a finite number > 0 [mm]")
     t = float(thickness_mm)
+    if suffix.startswith("N") and name in NORMALISED_LIMIT_MM and t > NORMALISED_LIMIT_MM[name]:
+        raise OutOfScopeError("thickness_mm", thickness_mm,
+                              f"<= {NORMALISED_LIMIT_MM[name]:g} mm for {name}{suffix} (EN 10025-3 "
+                              f"normalised rows not tabulated above; the {name}M rows would overstate f_y)")
     lower = 0.0
     for upper, fy, fu in GRADES[name]:
         if t <= upper:

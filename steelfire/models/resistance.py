@@ -23,17 +23,24 @@ sqrt(k_y,theta / k_E,theta) (EN 1993-1-2 Table 3.1 factors, :mod:`steelfire.mode
   (4.21b) N / (chi_z,fi N_pl,theta) + k_LT M_y / (chi_LT,fi M_theta) <= 1  (members that can buckle
   laterally), with N_pl,theta = A k_y,theta f_y / gamma_M,fi, M_theta = W_y k_y,theta f_y / gamma_M,fi,
   k_y = 1 - mu_y N / (chi_y,fi N_pl,theta) <= 3,
-  mu_y = (2 beta_M,y - 5) lambda_y,theta + 0.44 beta_M,y + 0.29 <= 0.8 (for lambda_y,20C <= 1.1),
+  mu_y = the smaller of (2 beta_M,y - 5) lambda_y,theta + 0.44 beta_M,y + 0.29 (EN 1993-1-2:2005, for
+  lambda_y,20C <= 1.1) and (1.2 beta_M,y - 3) lambda_y,theta + 0.71 beta_M,y - 0.29 (the form of the
+  corrigendum EN 1993-1-2:2005/AC:2009), each <= 0.8: the smaller mu_y gives the larger k_y, so the
+  check is on the safe side of either text (the 2005 form alone gives the smaller k_y for
+  lambda_y,theta below about 0.25 at beta_M,y = 1.1);
   k_LT = 1 - mu_LT N / (chi_z,fi N_pl,theta) <= 1, mu_LT = 0.15 lambda_z,theta beta_M,LT - 0.15 <= 0.9;
   beta_M,y = beta_M,LT = 1.1 (uniform moment, Figure 4.2; the least value, so the safe side) unless
   the member gives them;
 * tension with bending: EN 1993-1-2 gives no interaction; the linear sum
   N / N_fi,theta,Rd + M_y / M_fi,t,Rd <= 1 of EN 1993-1-1 6.2.1(7) is used (safe side), beside
   lateral-torsional buckling without the help of the tension;
-* class 4 sections: theta_a,cr = 350 C (4.2.3.6(2), recommended value).
+* class 4 sections: theta_a,cr = 350 C (4.2.3.6(2), recommended value). The effective section is
+  not modelled, but a member whose design effect the GROSS section (the class 3 checks with W_el,y)
+  cannot carry at 20 C fails at 20 C: the effective section is never stronger than the gross one.
 
 The kappa factors of 4.2.3.3(7)-(8) enter the cross-section bending check only: eq (4.12)/(4.15)
-and (4.21a)-(4.21d) do not carry them.
+and (4.21a)-(4.21d) do not carry them. The clause gives kappa_1 = 1.0, 0.85 or 0.7 and kappa_2 = 1.0
+or 0.85; values below 0.7 and 0.85 (which would raise the resistance further) are refused.
 
 The critical temperature of a member is the lowest uniform steel temperature at which its design
 effect reaches its resistance (for combined loading: the interaction reaches 1). It is found for all
@@ -43,8 +50,9 @@ grid interval where it reaches 1 is bisected to 0.1 C; the lower end of the fina
 returned (the member still holds there, so the value is at most 0.1 C on the safe side).
 
 Equation numbers are quoted from memory of EN 1993-1-2:2005 (the clause numbers are the reference),
-and so is the form of mu_y in 4.2.3.5 (the 2005 text with (2 beta_M,y - 5) and + 0.29, and its
-condition lambda_y,20C <= 1.1).
+and so are both forms of mu_y in 4.2.3.5 (the 2005 text with (2 beta_M,y - 5) and + 0.29, and its
+condition lambda_y,20C <= 1.1, which is kept; the corrigendum's (1.2 beta_M,y - 3) and + 0.71 beta_M,y
+- 0.29).
 
 Units: forces kN, moments kNm, lengths m at the interface; N, N mm, mm and MPa inside.
 """
@@ -67,6 +75,8 @@ from steelfire.models import sections as sec
 from steelfire.models import steel
 
 __all__ = [
+    "ADAPTATION_FACTOR_K1_MIN",
+    "ADAPTATION_FACTOR_K2_MIN",
     "CODE_VALUES",
     "KINDS",
     "METHODS",
@@ -101,6 +111,12 @@ MEMBER_KEYS = ("kind", "steel_grade", "axial_force_kN", "moment_y_kNm", "bucklin
                "moment_factor_C1", "laterally_restrained", "adaptation_factor_k1",
                "adaptation_factor_k2", "equivalent_moment_factor_y", "equivalent_moment_factor_LT",
                "section")
+
+#: Least kappa_1 of EN 1993-1-2 4.2.3.3(7): 0.7 (unprotected beam exposed on three sides with a concrete
+#: slab on the fourth); 0.85 protected, 1.0 uniform temperature.
+ADAPTATION_FACTOR_K1_MIN = 0.7
+#: Least kappa_2 of EN 1993-1-2 4.2.3.3(8): 0.85 at the supports of a statically indeterminate beam.
+ADAPTATION_FACTOR_K2_MIN = 0.85
 
 # scan grid and bisection tolerance of the critical-temperature search [C]
 _GRID_C = np.arange(20.0, 1200.0 + 1e-9, 10.0)   # holds every row of Table 3.1 (100, 200, ...)
@@ -238,7 +254,8 @@ class MemberDesign:
     moment_factor_C1 : array
         C1 of M_cr [-], 1.0 (uniform moment) by default.
     adaptation_factor_k1, adaptation_factor_k2 : array
-        kappa_1, kappa_2 of EN 1993-1-2 4.2.3.3(7)-(8) [-], 1.0 by default.
+        kappa_1, kappa_2 of EN 1993-1-2 4.2.3.3(7)-(8) [-], 1.0 by default; kappa_1 from 0.7 and
+        kappa_2 from 0.85 to 1 (the clause's values).
     equivalent_moment_factor_y, equivalent_moment_factor_LT : array
         beta_M,y and beta_M,LT of EN 1993-1-2 Figure 4.2 [-]; nan: the code value
         ``equivalent_moment_factor_uniform`` (1.1).
@@ -406,6 +423,7 @@ class _Prepared:
     beta_lt: np.ndarray
     has_ltb: np.ndarray
     groups: tuple            # (mode, member indices) of each mode of loading present, class 4 apart
+    gross_groups: tuple      # the same for class 4 members by their loading (gross-section checks)
 
 
 def _prepare(design: MemberDesign, code: dict, allow_out_of_scope: bool):
@@ -439,10 +457,11 @@ def _prepare(design: MemberDesign, code: dict, allow_out_of_scope: bool):
     _bad(design, ~np.isfinite(design.moment_factor_C1) | (design.moment_factor_C1 < 1.0)
          | (design.moment_factor_C1 > 3.0), "moment_factor_C1",
          "a number from 1.0 (uniform moment) to 3.0")
-    for name in ("adaptation_factor_k1", "adaptation_factor_k2"):
+    for name, least, clause in (("adaptation_factor_k1", ADAPTATION_FACTOR_K1_MIN, "4.2.3.3(7)"),
+                                ("adaptation_factor_k2", ADAPTATION_FACTOR_K2_MIN, "4.2.3.3(8)")):
         v = getattr(design, name)
-        _bad(design, ~(np.isfinite(v) & (v > 0.0) & (v <= 1.0)), name,
-             "a number > 0 and <= 1 (EN 1993-1-2 4.2.3.3(7)-(8))")
+        _bad(design, ~(np.isfinite(v) & (v >= least) & (v <= 1.0)), name,
+             f"a number from {least:g} to 1 (EN 1993-1-2 {clause})")
     for name in ("equivalent_moment_factor_y", "equivalent_moment_factor_LT"):
         v = getattr(design, name)
         _bad(design, ~np.isnan(v) & ~((v >= 1.1) & (v <= 2.5)), name,
@@ -488,9 +507,10 @@ def _prepare(design: MemberDesign, code: dict, allow_out_of_scope: bool):
         L, column("I_z_mm4"), column("I_t_mm4"), column("I_w_mm6"), design.moment_factor_C1, E, G)
     lam_lt = np.where(needs_lt, np.sqrt(w * f_y / mcr), np.nan)
 
-    mode = np.select(
-        [cls == 4, (N_kN < 0.0) & ~moment, N_kN < 0.0, N_kN == 0.0, ~moment],
-        [_CLASS4, _TENSION, _TENSION_BENDING, _BENDING, _COMPRESSION], _COMBINED)
+    load_mode = np.select(
+        [(N_kN < 0.0) & ~moment, N_kN < 0.0, N_kN == 0.0, ~moment],
+        [_TENSION, _TENSION_BENDING, _BENDING, _COMPRESSION], _COMBINED)
+    mode = np.where(cls == 4, _CLASS4, load_mode)
     beta_default = code["equivalent_moment_factor_uniform"]
     beta_y = np.where(np.isnan(design.equivalent_moment_factor_y), beta_default,
                       design.equivalent_moment_factor_y)
@@ -509,6 +529,7 @@ def _prepare(design: MemberDesign, code: dict, allow_out_of_scope: bool):
     for i in np.flatnonzero(mode == _CLASS4):
         notes[i].append("class 4: effective section not modelled; its resistance at 20 C is to be "
                         "checked separately (EN 1993-1-1, EN 1993-1-5)")
+    class4 = mode == _CLASS4
 
     prepared = _Prepared(
         mode=mode, N=N_kN * 1e3, M=np.abs(M_kNm) * 1e6, npl=area * f_y / g, mpl=w * f_y / g,
@@ -518,7 +539,9 @@ def _prepare(design: MemberDesign, code: dict, allow_out_of_scope: bool):
         imperfection=code["fire_imperfection_coefficient"]
         * np.sqrt(classification.REFERENCE_YIELD_STRENGTH_MPA / f_y),
         beta_y=beta_y, beta_lt=beta_lt, has_ltb=needs_lt,
-        groups=tuple((m, np.flatnonzero(mode == m)) for m in _MODE_CHECKS if np.any(mode == m)))
+        groups=tuple((m, np.flatnonzero(mode == m)) for m in _MODE_CHECKS if np.any(mode == m)),
+        gross_groups=tuple((m, np.flatnonzero(class4 & (load_mode == m))) for m in _MODE_CHECKS
+                           if np.any(class4 & (load_mode == m))))
     return prepared, classes, strengths, f_y, notes
 
 
@@ -585,7 +608,10 @@ def _group(P: _Prepared, mode: int, idx, theta, grid: bool):
             checks = (ny, nz)
         else:
             n_min = np.maximum(ny, nz)                           # N / (chi_min N_pl,theta)
-            mu_y = np.minimum((2.0 * g(P.beta_y) - 5.0) * lam_y + 0.44 * g(P.beta_y) + 0.29, 0.8)
+            beta_y = g(P.beta_y)
+            # both texts of mu_y, the smaller taken (larger k_y, safe side; module notes)
+            mu_y = np.minimum(np.minimum((2.0 * beta_y - 5.0) * lam_y + 0.44 * beta_y + 0.29,
+                                         (1.2 * beta_y - 3.0) * lam_y + 0.71 * beta_y - 0.29), 0.8)
             k_y = np.minimum(1.0 - mu_y * ny, 3.0)
             mu_lt = np.minimum(0.15 * lam_z * g(P.beta_lt) - 0.15, 0.9)
             k_lt = np.minimum(1.0 - mu_lt * nz, 1.0)
@@ -616,11 +642,12 @@ def _utilisation(P: _Prepared, theta, grid: bool = False):
     return u, check
 
 
-def _check_values(P: _Prepared, theta):
+def _check_values(P: _Prepared, theta, groups=None):
     """Every check's utilisation at one temperature per member: (len(_CHECKS), members), -inf
-    where a check does not apply."""
+    where a check does not apply (``groups``: P.groups by default; P.gross_groups for the gross
+    sections of class 4 members)."""
     out = np.full((len(_CHECKS), len(P.N)), -np.inf)
-    for mode, idx in P.groups:
+    for mode, idx in (P.groups if groups is None else groups):
         out[np.ix_(_MODE_CHECKS[mode], idx)] = _group(P, mode, idx, theta, False)
     return out
 
@@ -662,11 +689,13 @@ class ResistanceResult:
         the moments where the member has a moment (lateral-torsional buckling where it applies);
         nan otherwise and for class 4 sections.
     utilisation : float array
-        mu0 = E_fi,d / R_fi,d,0, the governing check at 20 C (nan for class 4).
+        mu0 = E_fi,d / R_fi,d,0, the governing check at 20 C (nan for class 4, except where the gross
+        section fails at 20 C: then the gross section's, a lower bound).
     critical_temperature_C : float array
         theta_a,cr [C]; nan where the member fails at 20 C.
     fails_at_20C : bool array
-        True where mu0 >= 1: the member cannot carry its load even at 20 C.
+        True where mu0 >= 1: the member cannot carry its load even at 20 C (class 4: where its
+        gross section cannot).
     bracket_C : float array (n, 2)
         Final bisection interval [lo, hi] [C] (nan for class 4 and members failing at 20 C).
     iterations : int
@@ -777,7 +806,7 @@ def critical_temperatures(design: MemberDesign, code: Optional[Mapping[str, Any]
     The checks that apply to each member follow from its loads and section (module notes):
     tension (N < 0), tension with bending, bending with lateral-torsional buckling (N = 0),
     flexural buckling about both axes (N > 0, M_y = 0), (4.21a)/(4.21b) (N > 0 and M_y), and 350 C
-    for class 4 sections. theta_a,cr is the lowest uniform steel temperature at which the governing
+    for class 4 sections (which fail at 20 C where their gross section cannot carry the effect). theta_a,cr is the lowest uniform steel temperature at which the governing
     check reaches 1: 10 C scan from 20 to 1200 C, then bisection to 0.1 C (the lower end of the
     final interval is returned). Valid for uniform temperature over the section and along the
     member; class 1-3 sections for the resistance formulas; members with lambda_y,20C <= 1.1 under
@@ -832,7 +861,12 @@ def critical_temperatures(design: MemberDesign, code: Optional[Mapping[str, Any]
     twenty = np.full(n, 20.0)
     values20 = _check_values(P, twenty)
     u20 = values20.max(axis=0)
-    fails = searched & (u20 >= 1.0)
+    # class 4: the gross section (class 3 checks, W_el,y) bounds the effective section's resistance
+    # from above, so a gross utilisation >= 1 at 20 C means the member fails at 20 C
+    gross20 = _check_values(P, twenty, P.gross_groups)
+    u20_gross = gross20.max(axis=0)
+    fails4 = ~searched & (u20_gross >= 1.0)
+    fails = (searched & (u20 >= 1.0)) | fails4
 
     # scan the grid (members x temperatures)
     u_grid, _ = _utilisation(P, _GRID_C, grid=True)
@@ -861,6 +895,13 @@ def critical_temperatures(design: MemberDesign, code: Optional[Mapping[str, Any]
     chi_y, chi_z, chi_lt, lam_y, lam_z, lam_lt = _factors(P, np.where(np.isnan(theta_cr), 20.0, theta_cr))
     axis_min = np.where(chi_y < chi_z, "y", "z")
     method, clause = _clauses(check, cls, axis_min, codev["class4_critical_temperature_C"])
+    mu0 = np.where(fails4, u20_gross, mu0)
+    for i in np.flatnonzero(fails4):
+        what = _CHECKS[int(gross20[:, i].argmax())]
+        clause[i] = (f"EN 1993-1-2 4.2.3.6 class 4 section: the gross section fails {what} at 20 C "
+                     "(class 3 rules, W_el,y; the effective section is weaker)")
+        notes[i].append(f"class 4: gross-section utilisation at 20 C = {u20_gross[i]:.3g} >= 1, a lower "
+                        "bound of the effective section's: fails at 20 C")
 
     # governing slenderness and chi (flexural: its axis; LTB and (4.21b): LT; (4.21a): chi_min)
     use_y = (check == 4) | ((check == 6) & (axis_min == "y"))
