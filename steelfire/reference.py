@@ -109,8 +109,8 @@ DESCRIPTIONS = {
         "buckling_length_y_m": "buckling length about y-y", "buckling_length_z_m": "buckling length about z-z",
         "lateral_restraint_length_m": "length between lateral restraints (lateral-torsional buckling)",
         "moment_factor_C1": "C1 of M_cr; default 1.0 (uniform moment, the conservative case)",
-        "adaptation_factor_k1": "kappa_1 of EN 1993-1-2 4.2.3.3(7); default 1.0",
-        "adaptation_factor_k2": "kappa_2 of EN 1993-1-2 4.2.3.3(8); default 1.0",
+        "adaptation_factor_k1": "kappa_1 of EN 1993-1-2 4.2.3.3(7) (1.0, 0.85 or 0.7); from 0.7 to 1, default 1.0",
+        "adaptation_factor_k2": "kappa_2 of EN 1993-1-2 4.2.3.3(8) (1.0 or 0.85); from 0.85 to 1, default 1.0",
         "equivalent_moment_factor_y": "beta_M,y of EN 1993-1-2 Figure 4.2; default 1.1 (uniform moment)",
         "equivalent_moment_factor_LT": "beta_M,LT; default 1.1",
         "position": "localised fire: { distance_m, height_m } from the fire axis and source; travelling fire: "

@@ -211,3 +211,16 @@ def test_governing_exposure_is_the_one_the_verdict_rests_on(tmp_path, monkeypatc
     assert np.array_equal(r.fire.exposure_C[:, 0], steady(t))
     # second law against the exposure named: the steel never above the hottest gas of it so far
     assert np.max(r.table.histories[:, 0] - np.maximum.accumulate(steady(t))) <= 1e-6
+
+
+@pytest.mark.parametrize("key, value, least", [("adaptation_factor_k1", 0.5, "0.7"), ("adaptation_factor_k2", 0.8, "0.85")])
+def test_adaptation_factors_below_the_clause_values_are_refused_at_load(key, value, least):
+    # EN 1993-1-2 4.2.3.3(7)-(8) (from memory): kappa_1 is 1.0, 0.85 or 0.7 and kappa_2 1.0 or 0.85; a smaller
+    # value divides the moment resistance by less than the clause allows (kappa_1 = 0.5 would double it)
+    d = {"title": "t", "fire": {"curve": "standard", "duration_min": 60.0},
+         "member": [{"name": "B1", "kind": "beam", "steel_grade": "S275", "section": "IPE 300", "moment_y_kNm": 40.0,
+                     "lateral_restraint_length_m": 5.0, key: value}]}
+    with pytest.raises(InputError) as e:
+        case_from_dict(d)
+    assert e.value.field == f"member[1] (B1).{key}" and e.value.value == value
+    assert least in e.value.allowed

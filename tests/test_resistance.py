@@ -92,7 +92,8 @@ def twin_utilisation(m, fy, theta, cls=None):
     if M == 0:
         return N / (min(chi_y, chi_z) * npl)
     beta = 1.1
-    mu_y = min((2 * beta - 5) * lam_y + 0.44 * beta + 0.29, 0.8)        # EN 1993-1-2 4.2.3.5
+    # EN 1993-1-2 4.2.3.5: the smaller of the 2005 text and the AC:2009 form (both from memory), <= 0.8
+    mu_y = min((2 * beta - 5) * lam_y + 0.44 * beta + 0.29, (1.2 * beta - 3) * lam_y + 0.71 * beta - 0.29, 0.8)
     k_y = min(1 - mu_y * N / (chi_y * npl), 3.0)
     u = N / (min(chi_y, chi_z) * npl) + k_y * M / mth                  # (4.21a)/(4.21c)
     if ltb:
@@ -398,7 +399,8 @@ def test_root_finder_against_brentq_on_random_members():
     checked = 0
     for i, m in enumerate(members):
         if r.method[i] == "class 4":
-            assert r.critical_temperature_C[i] == 350.0  # EN 1993-1-2 4.2.3.6(2)
+            # EN 1993-1-2 4.2.3.6(2); or failing at 20 C where even the gross section cannot carry the effect
+            assert r.critical_temperature_C[i] == 350.0 or (r.fails_at_20C[i] and r.utilisation[i] >= 1.0)
             continue
         fy = r.f_y_MPa[i]
         # mu0: the vectorised checks equal the twin to 1e-9 relative

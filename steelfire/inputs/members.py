@@ -39,8 +39,8 @@ DESIGN_NUMBERS = {
     "buckling_length_z_m": ("m", 0.0, 200.0, True),
     "lateral_restraint_length_m": ("m", 0.0, 200.0, True),
     "moment_factor_C1": ("-", 1.0, 3.0, False),
-    "adaptation_factor_k1": ("-", 0.0, 1.0, True),
-    "adaptation_factor_k2": ("-", 0.0, 1.0, True),
+    "adaptation_factor_k1": ("-", 0.7, 1.0, False),   # EN 1993-1-2 4.2.3.3(7): 1.0, 0.85 or 0.7
+    "adaptation_factor_k2": ("-", 0.85, 1.0, False),  # EN 1993-1-2 4.2.3.3(8): 1.0 or 0.85
     "equivalent_moment_factor_y": ("-", 1.1, 2.5, False),
     "equivalent_moment_factor_LT": ("-", 1.1, 2.5, False),
 }
