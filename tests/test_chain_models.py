@@ -176,7 +176,7 @@ def test_nominal_fire_judges_each_member_at_its_required_period():
 
 def test_governing_exposure_is_the_one_the_verdict_rests_on(tmp_path, monkeypatch):
     # A member that sees two exposures (as under a localised or travelling fire): "spike" heats to 1,100 C in
-    # 10 min and then cools with +-8 C jitter, "steady" ramps to 700 C and stays. Under the spike, eq (4.27)
+    # 10 min and then cools with +-8 C jitter, "steady" ramps to 700 C and stays for 70 min. Under the spike, eq (4.27)
     # pumps heat in on every fall (the jittered-curve test above) and its steel goes far above any gas, so the
     # verdict rests on the conduction model; under that model the steady exposure is the worse one. The
     # exposure named as governing, and drawn in the report, must be the one the verdict's peak comes from.
@@ -189,8 +189,8 @@ def test_governing_exposure_is_the_one_the_verdict_rests_on(tmp_path, monkeypatc
         jitter = np.where(np.round(t / 5.0) % 2 == 0, 8.0, -8.0) * (t >= 600.0)
         return np.where(t < 600.0, 20.0 + 1080.0 * t / 600.0, np.maximum(1100.0 - (t - 600.0) / 4.0, 20.0)) + jitter
 
-    def steady(t):
-        return 20.0 + 680.0 * np.minimum(t / 1200.0, 1.0)
+    def steady(t):   # to 700 C in 20 min, held to 90 min, back at 20 C at 140 min (the run covers the steel's peak)
+        return 20.0 + 680.0 * np.clip(np.minimum(t / 1200.0, (8400.0 - t) / 3000.0), 0.0, 1.0)
 
     case = _table_case(tmp_path, lambda t: np.maximum(spike(t), steady(t)),
                        protection={"density": 1200.0, "conductivity": 0.2, "specific_heat": 2200.0})

@@ -407,6 +407,7 @@ def test_travelling_series_names_every_fire_even_when_some_outlast_the_run(famil
     text = (CASES / "open_office_travelling.toml").read_text(encoding="utf-8")
     text = text.replace("duration_min = 360.0", "duration_min = 120.0")   # the small fires outlast it
     text = text.replace("fire_sizes = [0.10, 0.25, 0.50, 1.0]", family)
+    text = text.replace("[analysis]", "[analysis]\nallow_out_of_scope = true", 1)   # refused otherwise
     path = tmp_path / "case.toml"
     path.write_text(text, encoding="utf-8")
     case = steelfire.load_case(path)
@@ -450,3 +451,19 @@ def test_histories_csv_holds_each_members_exposure(atrium):
     n = len(names)
     np.testing.assert_allclose(data[:, 2 + n:], exposure, atol=0.006)
     np.testing.assert_allclose(data[:, 1], exposure.max(axis=1), atol=0.006)
+
+
+
+def test_travelling_fire_that_outlasts_the_run_is_refused(tmp_path):
+    # a member the fire has not reached by the end of the run stays at 20 C and would pass: the run must cover the
+    # family's longest fire (t_b + L / s, the case's own family: its longest lasts 339.5 min by the check of the case as bundled, > 120)
+    from steelfire.errors import OutOfScopeError
+
+    text = (CASES / "open_office_travelling.toml").read_text(encoding="utf-8").replace(
+        "duration_min = 360.0", "duration_min = 120.0")
+    path = tmp_path / "case.toml"
+    path.write_text(text, encoding="utf-8")
+    with pytest.raises(OutOfScopeError) as e:
+        steelfire.analyse(steelfire.load_case(path), histories=False)
+    assert e.value.field == "fire.duration_min" and e.value.value == 120.0
+    assert e.value.allowed.startswith("at least ") and "not burnt out" in e.value.allowed

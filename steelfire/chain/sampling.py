@@ -92,8 +92,8 @@ GRID_CHECK_FIRES = 16
 #: The hottest gas an Annex A fire reaches, 20 + 1325 C (eq (A.1) as t* grows): the bare-steel step
 #: limit of the sampled fires is taken at it.
 ANNEX_A_GAS_CEILING_C = 1345.0
-#: Steel still heating at the end of the grid: last increment above this [C] (as the check).
-STILL_HEATING_C = 1e-9
+#: Steel still heating at the end of the grid: last increment above this [C] (the check's own limit).
+STILL_HEATING_C = verdicts.STILL_HEATING_C
 #: Steel above the hottest gas so far by more than this [C] is counted (half the 0.01 C the outputs show).
 ABOVE_GAS_C = 0.005
 #: Band of (0.2e-3 q_t,d / O) / t_lim around 1 within which a fire is counted as near the regime boundary.

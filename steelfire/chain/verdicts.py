@@ -188,6 +188,10 @@ def _columns(members, annex_f, cib, equal_time_s, critical_time_s, horizon) -> E
     return EquivalenceColumns(a, w, d, kc, small, code.reshape(-1).astype(np.int64), verdicts)
 
 
+#: The steel is taken as still heating at the end of the run where its last step raised it by more than this [C].
+STILL_HEATING_C = 1e-9
+
+
 def member_warnings(case, fire, cols, peak, last, rising):
     """Warnings about the members: assessed ranges of their protection, shadow factors that differ
     between the design and the standard fire, eq (4.22) used where it does not hold, steel still heating
@@ -235,7 +239,7 @@ def member_warnings(case, fire, cols, peak, last, rising):
         out.append(f"Critical temperature given by the user (not checked by steelfire) for {names_text(given)}: "
                    "it must come from the member's buckling resistance (EN 1993-1-2 4.2.3).")
     if fire.cools:
-        heating = [m.name for m, d in zip(members, last) if d > 1e-9]
+        heating = [m.name for m, d in zip(members, last) if d > STILL_HEATING_C]
         if heating:
             out.append(
                 f"Steel still heating at the end of the design fire (duration_min = {case.fire.duration_min:g}) "

@@ -384,7 +384,15 @@ def design_fire(setup: FireSetup) -> DesignFire:
     longest = max(f.total_duration_s for f in fires)
     warnings = []
     if longest > setup.duration_min * 60.0:
+        # a member the fire has not reached by the end of the run stays at 20 C and would pass: refused
         short = [lab for lab, f in zip(labels, fires) if f.total_duration_s > setup.duration_min * 60.0]
+        allowed = (f"at least {math.ceil(longest / 60.0):g} min: {', '.join(short)} of the family "
+                   f"ha{'s' if len(short) == 1 else 've'} not burnt out by then, so members far along the floor may "
+                   "not have seen the fire yet")
+        if not setup.allow_out_of_scope:
+            raise OutOfScopeError("fire.duration_min", setup.duration_min,
+                                  allowed + " (set analysis.allow_out_of_scope = true to compute anyway)")
+        oos.append(f"OUT OF SCOPE of the travelling fire: fire.duration_min = {setup.duration_min:g}; {allowed}")
         warnings.append(f"Travelling fire: {', '.join(short)} ha{'s' if len(short) == 1 else 've'} not burnt out "
                         f"at duration_min = {setup.duration_min:g} min (longest {longest / 60:.0f} min): the members "
                         "far along the floor may not have seen the fire yet; extend fire.duration_min.")
