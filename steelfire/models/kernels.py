@@ -35,11 +35,11 @@ def missing() -> list[str]:
     out = []
     for name in NAMES:
         k = _kernel(name)
-        if k.signatures:
-            continue
         try:
+            if k.signatures:
+                continue
             index = k._cache._cache_file._load_index()   # numba's on-disk index: {} when absent or stale
-        except Exception:  # caching off (NUMBA_DISABLE_JIT, no writable cache) or numba's layout changed
+        except Exception:  # not compiled at all (NUMBA_DISABLE_JIT), caching off, or numba's layout changed
             return []
         if not index:
             out.append(name)
