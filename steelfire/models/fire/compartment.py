@@ -107,7 +107,9 @@ def weighted_thermal_inertia(surfaces: Sequence[Surface], boundary_area_m2: floa
                              vertical_opening_area_m2: float, t_max_h: float) -> float:
     """b = sum(b_j A_j) / (A_t - A_v) [J/(m2 s^0.5 K)], EN 1991-1-2 Annex A (9), eq (A.9).
 
-    The surfaces must cover the enclosure less its openings: sum A_j within 2 % of A_t - A_v.
+    The surfaces must cover the enclosure less its openings: sum A_j within 2 % of A_t - A_v. Where
+    they add up to more, the divisor is sum A_j, so b stays the area-weighted mean (dividing by
+    A_t - A_v would raise b above it: a higher b is a milder fire); where less, A_t - A_v stands.
     """
     net = boundary_area_m2 - vertical_opening_area_m2
     total = sum(s.area_m2 for s in surfaces)
@@ -117,7 +119,9 @@ def weighted_thermal_inertia(surfaces: Sequence[Surface], boundary_area_m2: floa
     if abs(total - net) > 0.02 * net:
         raise InputError("compartment.surface", round(total, 3),
                          f"surface areas must add up to A_t - A_v = {net:.3f} m2 (within 2 %)")
-    return float(sum(layered_thermal_inertia(s.layers, t_max_h) * s.area_m2 for s in surfaces) / net)
+    # over-covered beyond rounding: divide by the surfaces' own area (their mean), else by A_t - A_v
+    divisor = total if total > net * (1.0 + 1e-9) else net
+    return float(sum(layered_thermal_inertia(s.layers, t_max_h) * s.area_m2 for s in surfaces) / divisor)
 
 
 def total_area_fire_load(design_fire_load_MJ_m2: float, floor_area_m2: float, boundary_area_m2: float) -> float:
