@@ -148,7 +148,7 @@ def parametric_fire(opening_factor_m05: float, thermal_inertia: float, total_are
     """
     o, b, q = opening_factor_m05, thermal_inertia, total_area_fire_load_MJ_m2
     for field, v in (("opening factor O", o), ("thermal inertia b", b), ("fire load q_t,d", q), ("t_lim", t_lim_h)):
-        if not (isinstance(v, (int, float)) and math.isfinite(v) and v > 0):
+        if isinstance(v, bool) or not (isinstance(v, (int, float)) and math.isfinite(v) and v > 0):
             raise InputError(field, v, "must be a finite number > 0")
     gamma = gamma_factor(o, b)
     t_vent_h = 0.2e-3 * q / o
