@@ -6,10 +6,19 @@ Two criteria per member (EN 1993-1-2 4.2.5.2 steel temperatures, 4.2.4 critical 
   ``required_minutes`` is at most the critical temperature. Under the standard fire eq (4.27)
   heats the steel monotonically and a thicker layer is never hotter, so plain bisection applies:
   the member passes exactly when it reaches the critical temperature no earlier than required.
-* burnout: the peak over the whole design fire, cooling phase included, is at most the critical
-  temperature. Eq (4.27)'s cooling-phase term can make that peak rise with thickness for heavy
-  protection (phi of about 2 and more), so the passing thicknesses need not form a half-line:
-  the thickness range is scanned upward and the first passing interval is bisected.
+* burnout (the design fire): the peak over the whole design fire, cooling phase included, is at most
+  the critical temperature. Eq (4.27)'s cooling-phase term can make that peak rise with thickness for
+  heavy protection (phi of about 2 and more), so the passing thicknesses need not form a half-line:
+  the thickness range is scanned upward and the first passing interval is bisected. Under a nominal
+  design fire a member with a required period is judged, as the check judges it, by its temperature in
+  that fire at the required period (the hydrocarbon or external curve is not the standard fire).
+
+Each criterion uses the model of the check's verdict: the standard period by eq (4.27) (the check's
+time to critical), the design fire by eq (4.27) or the conduction model where it governs
+(chain.protected), on the check's own time grid. Only thicknesses the material is supplied in, within
+its assessed range, and stable at the time step are proposed; :func:`size` then checks the schedule at
+the proposed thicknesses and proposes no thickness the check does not pass by more than the numerical
+error.
 
 All members advance together: every scan point and every bisection step is one call of the batch
 kernels (:func:`steelfire.models.heat.run`) over the whole schedule (not one root-find per member).
@@ -27,6 +36,9 @@ from steelfire.chain.protected import SECOND_LAW_TOLERANCE_C
 
 #: Bisection stops when the bracket is this narrow [m] (0.1 mm).
 TOLERANCE_M = 1e-4
+#: A proposed thickness the check does not pass (or passes within the numerical error) is raised to the
+#: next supplied thickness at most this many times; then the member is reported not achievable.
+MAX_RAISES = 3
 #: At most this many thicknesses per member in the burnout scan: the supplied thicknesses
 #: themselves where there are no more, else this many spaced evenly in log(thickness) over the
 #: supplied range (about 7 % apart over 0.5-100 mm). A passing window narrower than that spacing,
@@ -72,17 +84,19 @@ class Problem:
         self.design = design
         self.code = code
         self.kernel_calls = 0
-        # under a nominal design fire a member with a required period is judged at that period only
-        self.burnout_applies = np.ones(len(self.members), dtype=bool) if not (design is not None and design.nominal) \
-            else np.isnan(self.required_s)
+        # under a nominal design fire a member with a required period is judged at that period (its design-fire
+        # temperature there at most critical), as the check judges it; the others by their peak over the fire
+        self.at_required = np.zeros(len(self.members), dtype=bool) if not (design is not None and design.nominal) \
+            else ~np.isnan(self.required_s)
 
     def __len__(self):
         return len(self.members)
 
-    def _run(self, fire: Fire, idx, d_m, threshold):
+    def _run(self, fire: Fire, idx, d_m, threshold, lumped_only=False):
         """(peak, crossing time) of the members ``idx`` at thicknesses ``d_m`` in ``fire``: eq (4.27), or the
-        conduction model where the case asks for it or where eq (4.27) puts the steel above the hottest gas so
-        far (chain.protected)."""
+        conduction model (refined as the check refines it) where the case asks for it or where eq (4.27) puts
+        the steel above the hottest gas so far (chain.protected); ``lumped_only``: eq (4.27) alone, as the
+        check's standard-fire time to critical."""
         self.kernel_calls += 1
         idx = np.asarray(idx)
         d_mm = np.asarray(d_m, dtype=float) * 1e3
@@ -93,26 +107,34 @@ class Problem:
                       thickness_mm=d_mm, thresholds_C=threshold)
         peak, cross = r.peak_C.copy(), r.crossing_time_s.copy()
         use = np.ones(len(idx), dtype=bool) if self.conduction_only else r.excess_C > SECOND_LAW_TOLERANCE_C
+        if lumped_only:
+            use[:] = False
         if use.any():
             thr = np.broadcast_to(threshold, (len(idx),))[use]
-            p, _, c, *_ = ex.run_conduction(self.code, self.cols, select[use], thickness_mm=d_mm[use], thresholds_C=thr)
+            p, _, c, *_ = ex.run_conduction(self.code, self.cols, select[use], converged=True, thickness_mm=d_mm[use],
+                                            thresholds_C=thr)
             peak[use], cross[use] = p, c
         return peak, cross
 
     def standard_passes(self, idx, d_m):
-        """Reaches the critical temperature no earlier than required (standard fire)."""
-        peak, cross = self._run(self.standard, idx, d_m, self.critical_C[idx])
+        """Reaches the critical temperature no earlier than required (standard fire, eq (4.27): the model of the
+        check's time to critical whatever the protection model)."""
+        peak, cross = self._run(self.standard, idx, d_m, self.critical_C[idx], lumped_only=True)
         return np.isfinite(peak) & (np.isnan(cross) | (cross >= self.required_s[idx] - 1e-9))
 
     def burnout_passes(self, idx, d_m):
-        """Peak over the whole design fire at most the critical temperature (true where the criterion does
-        not apply: a member with a required period under a nominal design fire)."""
+        """Peak over the whole design fire at most the critical temperature; under a nominal design fire, a
+        member with a required period: the design fire's steel temperature at that period at most critical
+        (the nominal curves only heat, so: the critical temperature not reached before the period)."""
         idx = np.asarray(idx)
+        d_m = np.asarray(d_m, dtype=float)
         ok = np.ones(len(idx), dtype=bool)
-        use = self.burnout_applies[idx]
-        if use.any():
-            peak = self._run(self.design, idx[use], np.asarray(d_m, dtype=float)[use], np.full(int(use.sum()), np.inf))[0]
-            ok[use] = np.isfinite(peak) & (peak <= self.critical_C[idx[use]])
+        if not len(idx):
+            return ok
+        at = self.at_required[idx]
+        peak, cross = self._run(self.design, idx, d_m, np.where(at, self.critical_C[idx], np.inf))
+        ok[~at] = np.isfinite(peak[~at]) & (peak[~at] <= self.critical_C[idx[~at]])
+        ok[at] = np.isfinite(peak[at]) & (np.isnan(cross[at]) | (cross[at] >= self.required_s[idx[at]] - 1e-9))
         return ok
 
     def passes(self, idx, d_m):
@@ -253,12 +275,18 @@ def round_up_and_verify(p: Problem, failing_m, achievable, supplied_m):
 
 
 def _sizing_fires(case):
-    """The standard fire up to the longest required period and the design fire, as :class:`Fire`."""
+    """The standard fire up to the longest required period and the design fire, as :class:`Fire`; the design
+    fire on the check's grid (chain.analysis.analyse): under a nominal fire it runs to the longest required
+    period if that is longer than ``duration_min``, with the required periods on the grid."""
     from steelfire.chain import fires
 
     step = case.analysis.time_step_s
     fire = fires.design_fire(case)
-    t = fires.time_grid(case.fire.duration_min * 60.0, step, fire.key_times_s)
+    duration_s, keys = case.fire.duration_min * 60.0, tuple(fire.key_times_s)
+    periods = [m.required_minutes * 60.0 for m in case.members if m.required_minutes is not None]
+    if fire.nominal and periods:
+        duration_s, keys = max(duration_s, max(periods)), keys + tuple(periods)
+    t = fires.time_grid(duration_s, step, keys)
     if fire.exposure is not None:
         ex = fire.exposure(t)
         exposures = thermal.Exposures(t, ex.gas_C, ex.member_columns, ex.column_labels)
@@ -276,12 +304,36 @@ def _empty(note=""):
             "achievable": None, "note": note, "supplied_range_mm": None, "iterations": None}
 
 
+def supplied_m(case, member):
+    """The thicknesses [m] a protected ``member`` may be proposed in, ascending, and why some were left out:
+    its material's supplied thicknesses within the material's assessed thickness range (a product is used
+    within its assessment) and no thinner than eq (4.27) is stable at the time step
+    (:func:`steelfire.models.stability.stable_min_thickness_m`, which the check refuses below). Returns
+    (thicknesses, note); an empty array where none is left."""
+    from steelfire.models import stability
+
+    mat = case.materials[member.protection]
+    s = mat.supplied_thicknesses_mm() * 1e-3
+    notes = []
+    if mat.assessed_thickness_mm:
+        lo, hi = mat.assessed_thickness_mm
+        keep = (s >= lo * 1e-3 - 1e-12) & (s <= hi * 1e-3 + 1e-12)
+        if not keep.all():
+            notes.append(f"supplied thicknesses limited to the assessed range {lo:g}-{hi:g} mm")
+        s = s[keep]
+    stable = float(stability.stable_min_thickness_m(
+        max(v for _, v in mat.conductivity_table), mat.specific_heat, mat.density, member.section_factor_per_m,
+        case.analysis.time_step_s, case.code["steel_density_kg_m3"]))
+    if np.any(s < stable):
+        notes.append(f"thicknesses below {stable * 1e3:.3g} mm left out (eq (4.27) unstable at the time step)")
+    return s[s >= stable], "; ".join(notes)
+
+
 def size_members(case):
     """Least thickness per protected member for its standard period and for burnout, the governing one,
     and the least supplied thickness that passes both (checked, since the burnout peak need not fall
     with thickness). Returns (a sizing dict per member in schedule order, kernel calls)."""
     from steelfire.chain import verdicts
-    from steelfire.models import stability
 
     code = case.code
     members = case.members
@@ -292,17 +344,14 @@ def size_members(case):
         cols = thermal.MemberColumns(case)
         standard, design = _sizing_fires(case)
         sub = [members[i] for i in prot]
-        mats = [case.materials[m.protection] for m in sub]
         crit = verdicts.critical_temperatures(sub, code, case.analysis.allow_out_of_scope)[0]
         req = np.array([np.nan if m.required_minutes is None else m.required_minutes * 60.0 for m in sub])
         p = Problem(cols, prot, crit, req, standard, design, code, case.analysis.protection_model)
-        supplied = [mat.supplied_thicknesses_mm() * 1e-3 for mat in mats]
-        # trial thicknesses start where the explicit eq (4.27) is stable at this time step
-        stable = stability.stable_min_thickness_m(
-            np.array([max(v for _, v in mat.conductivity_table) for mat in mats]),
-            np.array([mat.specific_heat for mat in mats]), np.array([mat.density for mat in mats]),
-            cols.section_factor_per_m[prot], case.analysis.time_step_s, code["steel_density_kg_m3"])
-        supplied = [sp[sp >= st] if np.any(sp >= st) else sp[-1:] for sp, st in zip(supplied, stable)]
+        supply = [supplied_m(case, m) for m in sub]
+        none = np.array([len(sp) == 0 for sp, _ in supply])
+        # a member left with no thickness is sized over a placeholder (the largest supplied) and reported not achievable
+        supplied = [sp if len(sp) else case.materials[m.protection].supplied_thicknesses_mm()[-1:] * 1e-3
+                    for (sp, _), m in zip(supply, sub)]
         d_min = np.array([s[0] for s in supplied])
         d_max = np.array([s[-1] for s in supplied])
         a = size_standard_period(p, d_min, d_max)
@@ -310,22 +359,30 @@ def size_members(case):
         a_mm = np.where(np.isnan(a.thickness_m), np.nan, a.thickness_m * 1e3)
         b_mm = b.thickness_m * 1e3
         failing = np.fmax(a.failing_m, b.failing_m)  # NaN only where both pass at the least thickness
-        chosen, ok = round_up_and_verify(p, failing, a.achievable & b.achievable, supplied)
+        chosen, ok = round_up_and_verify(p, failing, a.achievable & b.achievable & ~none, supplied)
+        # where the design fire is the standard fire itself and eq (4.27) the model, a member judged at its required
+        # period has one criterion, given once (as the standard period)
+        same = case.fire.curve == "standard" and not p.conduction_only
         for j, i in enumerate(prot):
             has_std = not np.isnan(req[j])
             std_v = float(a_mm[j]) if has_std and a.achievable[j] else None
-            burn_v = float(b_mm[j]) if (b.achievable[j] and p.burnout_applies[j]) else None
-            if ok[j]:
+            burn_v = float(b_mm[j]) if (b.achievable[j] and not (same and p.at_required[j])) else None
+            limits = supply[j][1]
+            if none[j]:
+                governing, note = None, (f"not achievable: no supplied thickness of {sub[j].protection} is left to "
+                                         f"propose ({limits})")
+            elif ok[j]:
                 governing = "standard_period" if (std_v is not None and (burn_v is None or std_v >= burn_v)) \
                     else "burnout"
-                note = ""
+                note = limits
             else:
                 governing = None
                 why = []
                 if has_std and not a.achievable[j]:
                     why.append(f"the standard period ({sub[j].required_minutes:g} min)")
                 if not b.achievable[j]:
-                    why.append("burnout of the design fire")
+                    why.append("the design fire at the required period" if p.at_required[j] else
+                               "burnout of the design fire")
                 if why:
                     note = (f"not achievable within the material's largest thickness "
                             f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
@@ -333,9 +390,12 @@ def size_members(case):
                     note = ("not achievable: each criterion alone is met (standard period from "
                             f"{a_mm[j]:.1f} mm, burnout from {b_mm[j]:.1f} mm) but no supplied thickness "
                             "meets both (the burnout peak rises again with thickness)")
+                if limits:
+                    note += f" ({limits})"
             out[i] = {"standard_period_mm": std_v, "burnout_mm": burn_v, "governing": governing,
                       "chosen_mm": float(chosen[j] * 1e3) if ok[j] else None, "achievable": bool(ok[j]),
-                      "note": note, "supplied_range_mm": [float(supplied[j][0] * 1e3), float(supplied[j][-1] * 1e3)],
+                      "note": note, "supplied_range_mm": None if none[j] else [float(supplied[j][0] * 1e3),
+                                                                          float(supplied[j][-1] * 1e3)],
                       "iterations": {"standard_period": a.iterations, "burnout": b.iterations}}
         calls = p.kernel_calls
     return [s if s is not None else _empty() for s in out], calls
@@ -351,29 +411,39 @@ def size(case, histories: bool = True):
     from steelfire.chain.verdicts import names_text
 
     sized, _ = size_members(case)
-    members = []
-    for m, s in zip(case.members, sized):
-        if m.protected:
-            d = s["chosen_mm"] if s["chosen_mm"] is not None else (
-                m.thickness_mm if m.thickness_mm is not None else s["supplied_range_mm"][1])
-            members.append(dataclasses.replace(m, thickness_mm=d))
-        else:
-            members.append(m)
+
+    def fallback_mm(i, m):   # where a member cannot be sized: its given thickness, or the largest supplied
+        return m.thickness_mm if m.thickness_mm is not None else \
+            float(case.materials[m.protection].supplied_thicknesses_mm()[-1])
+
+    members = [dataclasses.replace(m, thickness_mm=s["chosen_mm"] if s["chosen_mm"] is not None else fallback_mm(i, m))
+               if m.protected else m for i, (m, s) in enumerate(zip(case.members, sized))]
     result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
-    # a chosen thickness whose verdict is within the numerical error: the next supplied thickness, up to 3 times
-    for _ in range(3):
-        marginal = [i for i, (m, s) in enumerate(zip(case.members, sized)) if m.protected and s["chosen_mm"] is not None
-                    and result.table.extras["marginal"][i]]
-        if not marginal:
+    # the check at the proposed thicknesses decides. A member it does not pass, or passes only within the
+    # numerical error (table.ok), takes the next thickness it may be proposed in, checked again (the burnout
+    # peak need not fall with thickness), at most MAX_RAISES times; then it is reported not achievable.
+    supply = {i: supplied_m(case, m)[0] * 1e3 for i, m in enumerate(case.members) if m.protected}
+    for round_ in range(MAX_RAISES + 1):
+        ok = result.table.ok()
+        bad = [i for i, m in enumerate(case.members) if m.protected and sized[i]["chosen_mm"] is not None and not ok[i]]
+        if not bad:
             break
-        for i in marginal:
-            supply = case.materials[case.members[i].protection].supplied_thicknesses_mm()
-            up = supply[supply > sized[i]["chosen_mm"] + 1e-9]
-            if len(up):
-                sized[i]["chosen_mm"] = float(up[0])
-                sized[i]["note"] = (sized[i]["note"] + " " if sized[i]["note"] else "") + \
-                    "raised to the next supplied thickness: the verdict was within the numerical error"
+        for i in bad:
+            s, d = sized[i], sized[i]["chosen_mm"]
+            within = bool(result.members[i].passes and result.members[i].meets_required_period is not False)
+            up = supply[i][supply[i] > d + 1e-9]
+            if round_ < MAX_RAISES and len(up):
+                why = "the verdict was within the numerical error" if within else f"the check fails at {d:g} mm"
+                s["chosen_mm"] = float(up[0])
+                s["note"] = (s["note"] + "; " if s["note"] else "") + f"raised to the next supplied thickness: {why}"
                 members[i] = dataclasses.replace(members[i], thickness_mm=float(up[0]))
+            else:
+                why = "passes only within the numerical error" if within else "fails"
+                more = "no thicker supplied thickness is left" if not len(up) else \
+                    f"{MAX_RAISES} raises to the next supplied thickness did not help"
+                s.update(achievable=False, chosen_mm=None, governing=None,
+                         note=f"not achievable: the check at {d:g} mm {why} and {more}")
+                members[i] = dataclasses.replace(members[i], thickness_mm=fallback_mm(i, case.members[i]))
         result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
     specified = None
     if all(m.thickness_mm is not None for m in case.members if m.protected):
