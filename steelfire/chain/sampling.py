@@ -60,7 +60,7 @@ import numpy as np
 from steelfire.chain import fires as chain_fires
 from steelfire.chain import thermal, verdicts
 from steelfire.errors import InputError, OutOfScopeError
-from steelfire.models import equivalence_many, stability
+from steelfire.models import equivalence_many
 from steelfire.models import variability as V
 from steelfire.models.fire import compartment as compartment_model
 from steelfire.models.fire import fireload
@@ -690,17 +690,14 @@ def check_budget(case, spec, size: bool) -> None:
 
 # ---- sizing against a target probability ------------------------------------------------------------
 
-def _supplied(case, i, step):
-    """Supplied thicknesses [mm] of protected member ``i``, from the least at which eq (4.27) is stable
-    at the time step (as the deterministic sizing)."""
-    m = case.members[i]
-    mat = case.materials[m.protection]
-    s = mat.supplied_thicknesses_mm()
-    d_min = 1e3 * stability.stable_min_thickness_m(max(v for _, v in mat.conductivity_table), mat.specific_heat,
-                                                   mat.density, m.section_factor_per_m, step,
-                                                   case.code["steel_density_kg_m3"])
-    keep = s[s >= d_min - 1e-9]
-    return keep if len(keep) else s[-1:]
+def _supplied(case, i):
+    """(supplied thicknesses [mm], note) of protected member ``i``: those the deterministic sizing may propose
+    (:func:`steelfire.chain.sizing.supplied_m`: within the material's assessed range, eq (4.27) stable at the
+    time step); empty where none is left."""
+    from steelfire.chain.sizing import supplied_m
+
+    s, note = supplied_m(case, case.members[i])
+    return s * 1e3, note
 
 
 def size_members(case, spec, ex, ranges, show) -> list:
@@ -718,8 +715,20 @@ def size_members(case, spec, ex, ranges, show) -> list:
     out = [None] * len(members)
     if not len(prot):
         return out
-    step = case.analysis.time_step_s
-    supplied = [_supplied(case, int(i), step) for i in prot]
+    supply = [_supplied(case, int(i)) for i in prot]
+    for i, (sp, why) in zip(prot, supply):
+        if not len(sp):
+            out[i] = {"criterion": "upper end of the 95 % interval below target_probability",
+                      "target_probability": target, "chosen_mm": None, "achievable": False,
+                      "exceedance_probability": None, "exceedance_interval": None, "next_thinner_mm": None,
+                      "next_thinner_exceedance_probability": None, "supplied_range_mm": None, "evaluations": 0,
+                      "note": f"no supplied thickness of {members[i].protection} is left to propose "
+                              f"({why})"}
+    limits = {int(i): why for i, (sp, why) in zip(prot, supply) if len(sp)}
+    prot = np.array([i for i, (sp, _) in zip(prot, supply) if len(sp)], dtype=np.int64)
+    if not len(prot):
+        return out
+    supplied = [sp for sp, _ in supply if len(sp)]
     thick0 = np.full(len(members), np.nan)
     for i, s in zip(prot, supplied):
         thick0[i] = s[-1]
@@ -791,7 +800,8 @@ def size_members(case, spec, ex, ranges, show) -> list:
                   "next_thinner_mm": float(s[k - 1]) if k > 0 else None,
                   "next_thinner_exceedance_probability": None if thinner is None else thinner / n_f,
                   "supplied_range_mm": rng, "evaluations": int(evaluations[j]),
-                  "note": "" if k > 0 else "the least supplied (stable) thickness already meets the target"}
+                  "note": "; ".join(x for x in ("" if k > 0 else "the least supplied (stable) thickness already meets "
+                                                "the target", limits[int(i)]) if x)}
     return out
 
 

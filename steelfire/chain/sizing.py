@@ -369,7 +369,7 @@ def size_members(case):
             burn_v = float(b_mm[j]) if (b.achievable[j] and not (same and p.at_required[j])) else None
             limits = supply[j][1]
             if none[j]:
-                governing, note = None, (f"not achievable: no supplied thickness of {sub[j].protection} is left to "
+                governing, note = None, (f"no supplied thickness of {sub[j].protection} is left to "
                                          f"propose ({limits})")
             elif ok[j]:
                 governing = "standard_period" if (std_v is not None and (burn_v is None or std_v >= burn_v)) \
