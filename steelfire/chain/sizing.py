@@ -454,8 +454,11 @@ def size(case, histories: bool = True):
         s.pop("iterations", None)
         if s["achievable"] is None:  # bare member
             ok = r.ok
+            within = bool(r.passes and r.meets_required_period is not False)   # not ok: marginal
             s.update(achievable=ok, chosen_mm=0.0 if ok else None,
                      note="bare steel passes: no protection needed" if ok else
+                     "bare steel passes only within the numerical error (not established): run with a smaller time "
+                     "step, or name a protection material (protection = ...) to size it" if within else
                      "bare steel fails; name a protection material (protection = ...) to size it")
         d0, d1 = s["specified_mm"], s["chosen_mm"]
         s["change"] = (None if d0 is None or d1 is None else
