@@ -102,7 +102,7 @@ def _load(args):
     # first run after installing: the kernels compiled side by side before the run, not one by one in it
     from steelfire.models import kernels
 
-    kernels.prepare()
+    kernels.prepare(kernels.needed(case))
     return case
 
 

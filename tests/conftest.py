@@ -18,7 +18,7 @@ def _warm_numba_cache():
         from steelfire.models import kernels
     except Exception:   # the tests will show the import error
         return
-    kernels.prepare(kernels.missing(), quiet=True)
+    kernels.prepare(quiet=True)
 
 
 def pytest_configure(config):

@@ -613,3 +613,25 @@ def test_unknown_kernel_name_is_refused():
 
     with pytest.raises(ValueError, match="one of bare, protected"):
         kernels.warm("conduction")
+
+
+@pytest.mark.parametrize("stem", ["office_bay", "office_floor", "warehouse_standard", "atrium_localised"])
+def test_kernels_needed_are_exactly_those_a_check_and_a_sizing_call(stem):
+    # the first run prepares only the kernels a case needs (steelfire.models.kernels.needed): a new process runs
+    # check and size of the case and reports which kernels it called; the two sets must be equal
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    from steelfire.inputs.case import load_case
+    from steelfire.models import kernels
+
+    root = Path(__file__).resolve().parents[1]
+    code = ("import io, contextlib, sys\nfrom steelfire.cli import main\nfrom steelfire.models import kernels\n"
+            "for cmd in ('check', 'size'):\n"
+            "    with contextlib.redirect_stdout(io.TextIOWrapper(io.BytesIO())):\n"
+            f"        main([cmd, 'cases/{stem}.toml', '--json'])\n"
+            "print(','.join(n for n in kernels.NAMES if kernels._kernel(n).signatures))\n")
+    p = subprocess.run([sys.executable, "-c", code], cwd=root, capture_output=True, text=True, timeout=300)
+    called = p.stdout.strip().split(",")
+    assert called == kernels.needed(load_case(root / "cases" / f"{stem}.toml")), p.stderr

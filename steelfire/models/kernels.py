@@ -4,7 +4,7 @@ numba compiles the batch kernels of :mod:`steelfire.models.heat` (eq (4.25) bare
 :mod:`steelfire.models.conduction` (dry members with a constant conductivity; the others) on first use and
 keeps the machine code in its on-disk cache. Compiling takes about 10 s a kernel on a 2-core machine, one
 after the other inside a run. On the first run after installing, :func:`prepare` compiles the missing ones
-in short processes side by side instead (each by a tiny run with the argument types of the real runs), and
+a run needs (:func:`needed`) in short processes side by side instead (each by a tiny run with the argument types of the real runs), and
 the run then loads them from the cache. Nothing here changes what a run computes: if a process fails, the
 run compiles the kernel itself.
 """
@@ -46,6 +46,27 @@ def missing() -> list[str]:
     return out
 
 
+def needed(case) -> list[str]:
+    """The kernels of :data:`NAMES` a check, sizing or sampling run of ``case`` calls: eq (4.25) for bare
+    members, eq (4.27) for protected ones, and for protected members in a fire that cools (any but the
+    nominal curves) or with ``protection_model = "conduction"`` the conduction kernel of their kind (dry
+    with a constant conductivity, or the other)."""
+    from steelfire.models.fire import MODELS, nominal
+
+    out = set()
+    protected = [m for m in case.members if m.protected]
+    if len(protected) < len(case.members):
+        out.add("bare")
+    if protected:
+        out.add("protected")
+        if MODELS[case.fire.curve] is not nominal or case.analysis.protection_model == "conduction":
+            for m in protected:
+                mat = case.materials[m.protection]
+                general = mat.credited_moisture_percent > 0.0 or len(mat.conductivity_table) > 1
+                out.add("conduction_general" if general else "conduction_dry")
+    return [n for n in NAMES if n in out]
+
+
 def warm(name: str) -> None:
     """Compile kernel ``name`` (one of :data:`NAMES`) by a tiny run with the argument types of the real
     runs: rows in one fire and rows in several fires, the gas as a (time x fires) matrix."""
@@ -73,11 +94,11 @@ def warm(name: str) -> None:
         raise ValueError(f"unknown kernel {name!r}: one of {', '.join(NAMES)}")
 
 
-def prepare(names=None, *, quiet: bool = False) -> bool:
-    """Compile the kernels ``names`` (default: :func:`missing`) into numba's cache, each in its own
+def prepare(names=NAMES, *, quiet: bool = False) -> bool:
+    """Compile those of the kernels ``names`` that are :func:`missing` into numba's cache, each in its own
     process, side by side. Says so once on standard error unless ``quiet``. Returns whether all
     processes finished cleanly (False: the run compiles what is still missing itself)."""
-    names = missing() if names is None else list(names)
+    names = [n for n in missing() if n in names]
     if not names:
         return True
     if not quiet:
