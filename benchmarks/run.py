@@ -147,7 +147,9 @@ def sizing_case(n=1000, seed=3, thickness=False, as_dict=False, resistance=False
 
     base = tomllib.loads((ROOT / "cases" / "archive_room.toml").read_text())
     base["fire"]["duration_min"] = 240.0
-    base["analysis"] = {"time_step_s": 5.0, "standard_horizon_min": 240.0}
+    # 240 min cuts the fire's cooling short (it burns out at 298 min) and some members still heat at the end, which
+    # a check refuses; the figures keep the 240 min grid of the releases they are compared with
+    base["analysis"] = {"time_step_s": 5.0, "standard_horizon_min": 240.0, "allow_out_of_scope": True}
     supply = {"min_thickness_mm": 5.0, "max_thickness_mm": 100.0, "thickness_step_mm": 0.5}
     base["materials"] = {
         "board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0, **supply},
