@@ -224,3 +224,19 @@ def test_adaptation_factors_below_the_clause_values_are_refused_at_load(key, val
         case_from_dict(d)
     assert e.value.field == f"member[1] (B1).{key}" and e.value.value == value
     assert least in e.value.allowed
+
+
+def test_a_member_failing_at_20C_is_not_sized_as_if_thicker_protection_could_help():
+    # HEB 200, S235, 3 m, 3000 kN: N_pl = A f_y = 7808 mm2 x 235 MPa = 1835 kN at 20 C (section table values,
+    # hand calculation), so the member fails before any heating: the sizing note says protection cannot help
+    d = {"title": "t", "fire": {"curve": "standard", "duration_min": 60.0},
+         "materials": {"board": {"density": 800.0, "conductivity": 0.2, "specific_heat": 1700.0,
+                                 "thicknesses_mm": [10.0, 20.0, 30.0]}},
+         "member": [{"name": "C1", "kind": "column", "section": "HEB 200", "steel_grade": "S235",
+                     "axial_force_kN": 3000.0, "buckling_length_m": 3.0, "protection": "board", "thickness_mm": 20.0,
+                     "required_minutes": 30.0}]}
+    s = steelfire.size(case_from_dict(d), histories=False)
+    m = s.members[0]
+    assert m.critical_temperature_C == 20.0 and m.critical_temperature_source.startswith("fails at 20 C")
+    assert m.sizing["achievable"] is False and "fails at 20 C" in m.sizing["note"]
+    assert "no protection helps" in m.sizing["note"]

@@ -383,7 +383,11 @@ def size_members(case):
                 if not b.achievable[j]:
                     why.append("the design fire at the required period" if p.at_required[j] else
                                "burnout of the design fire")
-                if why:
+                if crit[j] <= 20.0:   # chain.verdicts: the resistance is below the design effect before any heating
+                    note = ("not achievable: the member fails at 20 C (its resistance is below the design effect "
+                            "before any heating; see critical_temperature_source): no protection helps, the member "
+                            "itself must be changed")
+                elif why:
                     note = (f"not achievable within the material's largest thickness "
                             f"({supplied[j][-1] * 1e3:g} mm) for {' and '.join(why)}")
                 else:
