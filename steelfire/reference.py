@@ -45,8 +45,10 @@ DESCRIPTIONS = {
         "standard_horizon_min": "how long the standard fire is run for times to critical; default 240",
         "allow_out_of_scope": "true: compute outside a method's validity range, every output stamped",
         "protection_model": '"lumped" (default: EN 1993-1-2 eq (4.27), the conduction model beside it where the '
-                            'fire cools or is tabulated) or "conduction" (the verdicts, histories and sizing of '
-                            "protected members rest on the 1-D conduction model through the protection)",
+                            'fire cools or is tabulated) or "conduction" (the design-fire verdicts, histories and '
+                            "sizing of protected members rest on the 1-D conduction model through the protection; "
+                            "the standard-fire time to critical, the required period and the equal-temperature "
+                            "equivalence stay on eq (4.27), the route product data of EN 13381 are assessed by)",
     },
     "compartment": {
         "floor_area_m2": "A_f", "height_m": "H, floor to ceiling",
