@@ -213,7 +213,8 @@ def test_governing_exposure_is_the_one_the_verdict_rests_on(tmp_path, monkeypatc
     assert np.max(r.table.histories[:, 0] - np.maximum.accumulate(steady(t))) <= 1e-6
 
 
-@pytest.mark.parametrize("key, value, least", [("adaptation_factor_k1", 0.5, "0.7"), ("adaptation_factor_k2", 0.8, "0.85")])
+@pytest.mark.parametrize("key, value, least", [("adaptation_factor_k1", 0.5, "0.7"),
+                                               ("adaptation_factor_k2", 0.8, "0.85")])
 def test_adaptation_factors_below_the_clause_values_are_refused_at_load(key, value, least):
     # EN 1993-1-2 4.2.3.3(7)-(8) (from memory): kappa_1 is 1.0, 0.85 or 0.7 and kappa_2 1.0 or 0.85; a smaller
     # value divides the moment resistance by less than the clause allows (kappa_1 = 0.5 would double it)

@@ -456,7 +456,8 @@ def test_histories_csv_holds_each_members_exposure(atrium):
 
 def test_travelling_fire_that_outlasts_the_run_is_refused(tmp_path):
     # a member the fire has not reached by the end of the run stays at 20 C and would pass: the run must cover the
-    # family's longest fire (t_b + L / s, the case's own family: its longest lasts 339.5 min by the check of the case as bundled, > 120)
+    # family's longest fire (t_b + L / s; the case's own family: its longest lasts 339.5 min by the check of the
+    # case as bundled, > 120)
     from steelfire.errors import OutOfScopeError
 
     text = (CASES / "open_office_travelling.toml").read_text(encoding="utf-8").replace(

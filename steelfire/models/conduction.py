@@ -528,9 +528,8 @@ def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, l
 
     Each chunk is one call of a compiled kernel that releases the GIL (:func:`_fast_chunk` for dry members
     with a constant conductivity and the face at the gas, :func:`_general_chunk` for the others), so a run
-    compiles only the kernel its members need, and each is compiled once: a compiled parallel loop around
-    both would compile (and optimise) their code a second time, which made the first run after installing
-    about 15 s longer."""
+    compiles only the kernel its members need, and each is compiled once (a compiled parallel loop around
+    both would compile and optimise their code a second time; figures in benchmarks/README.md)."""
     n_t = time_s.shape[0]
     n_m = apv.shape[0]
     peak = np.empty(n_m)
@@ -540,15 +539,15 @@ def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, l
     hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
     prof = np.empty((n, n_m))
     n_chunks, width = _chunking(n_m, n_threads, chunk)
+    # the kernels' arguments before and after the chunk's (lo, w)
     if fast:
         kernel = _fast_chunk
         before = (time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_v, threshold_C, rho_a, n, substeps)
-        after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
     else:
         kernel = _general_chunk
         before = (time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, lam_v, lam_n, latent_m3, threshold_C,
                   rho_a, n, substeps, wet, surface, alpha_c, eps_res)
-        after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
+    after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
     _announce_compile(kernel, before + (0, 1) + after)
 
     def one(c):

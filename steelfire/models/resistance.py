@@ -806,11 +806,11 @@ def critical_temperatures(design: MemberDesign, code: Optional[Mapping[str, Any]
     The checks that apply to each member follow from its loads and section (module notes):
     tension (N < 0), tension with bending, bending with lateral-torsional buckling (N = 0),
     flexural buckling about both axes (N > 0, M_y = 0), (4.21a)/(4.21b) (N > 0 and M_y), and 350 C
-    for class 4 sections (which fail at 20 C where their gross section cannot carry the effect). theta_a,cr is the lowest uniform steel temperature at which the governing
-    check reaches 1: 10 C scan from 20 to 1200 C, then bisection to 0.1 C (the lower end of the
-    final interval is returned). Valid for uniform temperature over the section and along the
-    member; class 1-3 sections for the resistance formulas; members with lambda_y,20C <= 1.1 under
-    axial compression with bending.
+    for class 4 sections (which fail at 20 C where their gross section cannot carry the effect).
+    theta_a,cr is the lowest uniform steel temperature at which the governing check reaches 1: 10 C scan
+    from 20 to 1200 C, then bisection to 0.1 C (the lower end of the final interval is returned). Valid
+    for uniform temperature over the section and along the member; class 1-3 sections for the resistance
+    formulas; members with lambda_y,20C <= 1.1 under axial compression with bending.
 
     Parameters
     ----------
