@@ -635,3 +635,30 @@ def test_kernels_needed_are_exactly_those_a_check_and_a_sizing_call(stem):
     p = subprocess.run([sys.executable, "-c", code], cwd=root, capture_output=True, text=True, timeout=300)
     called = p.stdout.strip().split(",")
     assert called == kernels.needed(load_case(root / "cases" / f"{stem}.toml")), p.stderr
+
+
+def test_on_threads_calls_work_once_per_thread_and_raises_what_a_thread_raised():
+    """heat._on_threads: ``work`` runs on ``n`` threads at once (the caller's one of them) and an error
+    raised in any of them reaches the caller; the kept threads serve the next call."""
+    import threading
+
+    seen = []
+    lock = threading.Lock()
+
+    def work():
+        with lock:
+            seen.append(threading.get_ident())
+
+    heat._on_threads(work, 2)
+    assert len(seen) == 2 and threading.get_ident() in seen
+    calls = iter(range(2))
+
+    def fails_once():
+        if next(calls) == 0:
+            raise ValueError("from a thread")
+
+    with pytest.raises(ValueError, match="from a thread"):
+        heat._on_threads(fails_once, 2)
+    seen.clear()
+    heat._on_threads(work, 2)
+    assert len(seen) == 2

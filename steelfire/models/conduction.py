@@ -63,6 +63,7 @@ multiply-adds per cell) and one division. Its plain-Python twin is ``tests/twins
 
 from __future__ import annotations
 
+import itertools
 import math
 from typing import NamedTuple
 
@@ -71,7 +72,7 @@ import numpy as np
 
 from steelfire.errors import InputError
 from steelfire.models.heat import (BATCH_MATH, KELVIN, SPECIFIC_HEAT_TERMS, STEFAN_BOLTZMANN, _announce_compile,
-                                   _finish, _knots, _track, heat_capacity_fraction)
+                                   _finish, _knots, _on_threads, _track, heat_capacity_fraction)
 from steelfire.models.steel import STEEL_DENSITY_KG_M3
 
 #: Latent heat of vaporisation of water at 100 C, 1 atm [J/kg] (steam tables, from memory: 2256.5 kJ/kg).
@@ -523,13 +524,12 @@ def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, l
                        threshold_C, rho_a, n, substeps, fast, wet, surface, alpha_c, eps_res, keep_history,
                        n_threads, chunk, ca_k):
     """All members of one kind and resolution: chunks of members side by side, taken by ``n_threads``
-    threads as they finish one. Returns peak, its time, crossing time, last increment, history (T x N or
-    0 x 0), cells' temperatures at the end (n x N).
+    threads as they finish one (:func:`steelfire.models.heat._on_threads`). Returns peak, its time,
+    crossing time, last increment, history (T x N or 0 x 0), cells' temperatures at the end (n x N).
 
     Each chunk is one call of a compiled kernel that releases the GIL (:func:`_fast_chunk` for dry members
     with a constant conductivity and the face at the gas, :func:`_general_chunk` for the others), so a run
-    compiles only the kernel its members need, and each is compiled once (a compiled parallel loop around
-    both would compile and optimise their code a second time; figures in benchmarks/README.md)."""
+    compiles only the kernel its members need."""
     n_t = time_s.shape[0]
     n_m = apv.shape[0]
     peak = np.empty(n_m)
@@ -550,18 +550,16 @@ def _conduction_chunks(time_s, gas_C, fire_index, apv, d_p, rho_p, c_p, lam_T, l
     after = (keep_history, ca_k, peak, peak_t, cross, last, hist, prof)
     _announce_compile(kernel, before + (0, 1) + after)
 
-    def one(c):
-        lo = c * width
-        kernel(*before, lo, min(lo + width, n_m) - lo, *after)
+    tickets = itertools.count()   # next() on it is atomic: each chunk goes to one thread
 
-    if n_threads <= 1 or n_chunks <= 1:
-        for c in range(n_chunks):
-            one(c)
-    else:
-        from concurrent.futures import ThreadPoolExecutor
+    def work():
+        c = next(tickets)
+        while c < n_chunks:
+            lo = c * width
+            kernel(*before, lo, min(lo + width, n_m) - lo, *after)
+            c = next(tickets)
 
-        with ThreadPoolExecutor(min(n_threads, n_chunks)) as pool:
-            list(pool.map(one, range(n_chunks)))
+    _on_threads(work, min(n_threads, n_chunks))
     return peak, peak_t, cross, last, hist, prof
 
 

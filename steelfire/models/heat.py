@@ -25,6 +25,7 @@ are assumed clean: validation happens in the case loader and the analysis chain.
 from __future__ import annotations
 
 import math
+import os
 from typing import NamedTuple
 
 import numba as nb
@@ -50,13 +51,14 @@ BATCH_MATH = {"contract"}
 
 #: The numbers of :func:`expm1_scaled` in the order it reads them: 1/16, the Taylor coefficients
 #: 1/2!, ..., 1/11! of e^z - 1 after the leading 1, then 2 (of the squarings) and that leading 1.
-EXPM1_TERMS = np.array([1.0 / 16.0] + [1.0 / math.factorial(k) for k in range(2, 12)] + [2.0, 1.0])
+EXPM1_TERMS = tuple([1.0 / 16.0] + [1.0 / math.factorial(k) for k in range(2, 12)] + [2.0, 1.0])
 #: EN 1993-1-2 eq (3.2a)-(3.2d) in the order :func:`heat_capacity_fraction` reads them, taken from the
 #: one definition in :mod:`steelfire.models.steel`: 20 C and the cubic (3.2a); 735 C, 738, 666, 13002
 #: (3.2b); 731, 545, 17820 (3.2c); 600 C, 900 C, 650 (3.2d).
-SPECIFIC_HEAT_TERMS = np.array(steel.SPECIFIC_HEAT_KERNEL_TERMS)
-# The kernels read these numbers as arguments, not literals: on AVX2 cores a literal is reloaded from
-# memory in every iteration once the vector registers are full; an argument is not.
+SPECIFIC_HEAT_TERMS = tuple(float(v) for v in steel.SPECIFIC_HEAT_KERNEL_TERMS)
+# The kernels take these numbers as a tuple argument: not literals (on AVX2 cores a literal is reloaded
+# from memory in every iteration once the vector registers are full) and not an array (the compiler
+# cannot tell that the kernel's own stores leave an array's elements alone, and did not vectorise).
 
 
 class Fires(NamedTuple):
@@ -204,13 +206,6 @@ def _take_ticket(typingctx, counter):
 
 
 @nb.njit(cache=True, inline="always")
-def _outputs(n_m, n_q, n_t, keep_history):
-    """The outputs: peak, its time, crossing time (NaN: never), queried temperatures, last step, history."""
-    hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
-    return (np.empty(n_m), np.empty(n_m), np.full(n_m, np.nan), np.full((n_m, n_q), np.nan), np.zeros(n_m), hist)
-
-
-@nb.njit(cache=True, inline="always")
 def _chunk_state(w):
     """Per-member state of a chunk: temperature (20 C), peak, its step, the step of the first crossing
     of the threshold and the temperatures either side of it (+inf: none yet), the last increment."""
@@ -279,17 +274,15 @@ def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cro
             cross[m] = time_s[k] + (time_s[k + 1] - time_s[k]) * (thr[j] - cx[j]) / (cn[j] - cx[j])
 
 
-@nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
+@nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
-                      rho_a, threshold_C, query_idx, keep_history, n_threads, ca_k, ex_k):
+                      rho_a, threshold_C, query_idx, keep_history, ca_k, ex_k, tickets, peak, peak_t, cross, at_q,
+                      last, hist):
+    """Eq (4.27) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
-    n_m = ap_v.shape[0]
-    n_q = query_idx.shape[0]
     n_k = lam_T.shape[1]
-    peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
     n_chunks = chunk_fire.shape[0]
-    tickets = np.zeros(1, dtype=np.int64)
-    for _worker in nb.prange(min(n_threads, n_chunks)):
+    if n_chunks > 0:
         c = _take_ticket(tickets)
         while c < n_chunks:
             lo = chunk_start[c]
@@ -321,6 +314,8 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
+                g0 = gas[i]       # read once a step: a store into the chunk's arrays could not change it
+                g1 = gas[i + 1]
                 # lambda_p at the steel temperature: the segment whose knot is the last one below it;
                 # constant conductivities (one knot) keep the value set before the time loop
                 if n_k > 1:
@@ -340,13 +335,13 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                     s = num + cap3[j] * den
                     r = 1.0 / (num * s)
                     phi10[j] = 0.1 * cap[j] * den * s * r
-                    flow[j] = lamj[j] * k_[j] * (gas[i] - x) * dt * den * num * r
+                    flow[j] = lamj[j] * k_[j] * (g0 - x) * dt * den * num * r
                 for j in range(w):
                     ex[j] = expm1_scaled(phi10[j], ex_k)
                 i_f = float(i)
                 for j in range(w):
                     x = th[j]
-                    dgjj = gas[i + 1] - gas[i]
+                    dgjj = g1 - g0
                     d_min = 0.0 if dgjj > 0.0 else -np.inf
                     d = max(flow[j] - ex[j] * dgjj, d_min)   # not negative while the gas heats
                     new = x + d
@@ -361,20 +356,16 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
             c = _take_ticket(tickets)
-    return peak, peak_t, cross, at_q, last, hist
 
 
-@nb.njit(cache=True, parallel=True, error_model="numpy", fastmath=BATCH_MATH)
+@nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alpha_c, eps_res, rho_a, threshold_C,
-                 query_idx, keep_history, n_threads, ca_k):
+                 query_idx, keep_history, ca_k, tickets, peak, peak_t, cross, at_q, last, hist):
+    """Eq (4.25) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
-    n_m = ksh_amv.shape[0]
-    n_q = query_idx.shape[0]
-    peak, peak_t, cross, at_q, last, hist = _outputs(n_m, n_q, n_t, keep_history)
     er = eps_res * STEFAN_BOLTZMANN
     n_chunks = chunk_fire.shape[0]
-    tickets = np.zeros(1, dtype=np.int64)
-    for _worker in nb.prange(min(n_threads, n_chunks)):
+    if n_chunks > 0:
         c = _take_ticket(tickets)
         while c < n_chunks:
             lo = chunk_start[c]
@@ -393,11 +384,13 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
                 i_f = float(i)
+                g0 = gas[i]       # read once a step: a store into the chunk's arrays could not change it
+                r0 = rad4[i]
                 for j in range(w):
                     x = th[j]
                     ta = x + KELVIN
                     ta2 = ta * ta
-                    h_net = ac[j] * (gas[i] - x) + er * (rad4[i] - ta2 * ta2)
+                    h_net = ac[j] * (g0 - x) + er * (r0 - ta2 * ta2)
                     num, den = heat_capacity_fraction(x, rho_a, ca_k)  # c_a rho_a = num / den: one division
                     new = x + kk[j] * h_net * dt * den / num
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
@@ -406,12 +399,57 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
             c = _take_ticket(tickets)
-    return peak, peak_t, cross, at_q, last, hist
+
+
+def _outputs(n_m, n_q, n_t, keep_history):
+    """The outputs: peak, its time, crossing time (NaN: never), queried temperatures, last step, history."""
+    hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
+    return (np.empty(n_m), np.empty(n_m), np.full(n_m, np.nan), np.full((n_m, n_q), np.nan), np.zeros(n_m), hist)
+
+
+#: Threads that run kernels beside the caller's (:func:`_on_threads`); made on first use, kept.
+_POOL = None
+_POOL_SIZE = 0
+
+
+def _forget_pool():
+    global _POOL, _POOL_SIZE
+    _POOL, _POOL_SIZE = None, 0
+
+
+os.register_at_fork(after_in_child=_forget_pool)   # a forked child has none of the parent's threads
+
+
+def _on_threads(work, n_threads):
+    """Call ``work()`` from ``n_threads`` threads at once, this one included, and return when all have
+    returned (raising what any raised). The kernels' ``work`` releases the GIL and takes chunks from one
+    counter until none is left, so a thread that starts late or runs slower does fewer of them.
+
+    Plain threads around a compiled loop, not a compiled parallel loop: numba compiles and optimises a
+    parallel loop's body a second time, which made the first run after installing about 10 s longer
+    per kernel (benchmarks/README.md). The threads are kept between calls: a new thread per call made
+    a two-thread call of a few tens of ms about 20 % slower."""
+    global _POOL, _POOL_SIZE
+    if n_threads <= 1:
+        work()
+        return
+    if _POOL_SIZE < n_threads - 1:
+        from concurrent.futures import ThreadPoolExecutor
+
+        if _POOL is not None:
+            _POOL.shutdown(wait=False)
+        _POOL, _POOL_SIZE = ThreadPoolExecutor(n_threads - 1, thread_name_prefix="steelfire-kernel"), n_threads - 1
+    others = [_POOL.submit(work) for _ in range(n_threads - 1)]
+    try:
+        work()
+    finally:
+        for f in others:
+            f.result()
 
 
 #: Said once on standard error when a kernel is about to be compiled (numba keeps the result on disk).
 COMPILE_NOTICE = ("steelfire: preparing the heat-transfer kernels for this machine, once after installing "
-                  "(10 to 30 s on a 2-core machine) ...")
+                  "(5 to 25 s on a 2-core machine) ...")
 _ANNOUNCED = set()
 
 
@@ -484,18 +522,20 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
             if rad4_FT is None:
                 t4 = rad.T + KELVIN
                 rad4_FT = np.ascontiguousarray(t4 * t4 * t4 * t4)
+            kernel = _bare_chunks
             args = (time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.alpha_c.astype(float),
-                    float(emissivity_resultant), rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS)
-            _announce_compile(_bare_chunks, args)
-            res = _bare_chunks(*args)
+                    float(emissivity_resultant), rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS)
         else:
             k = 1 if gi == 1 else int(lam_n[idx].max())
             args = (time_s, gas_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.thickness_m, r.density,
                     r.specific_heat, np.ascontiguousarray(r.conductivity_C[:, :k]),
                     np.ascontiguousarray(r.conductivity[:, :k]), r.conductivity_n.astype(np.int64), r.moisture_delay_s,
-                    rho_a, thr, q, keep_history, n_threads, SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
-            _announce_compile(_protected_chunks, args)
-            res = _protected_chunks(*args)
+                    rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
+            kernel = _protected_chunks
+        res = _outputs(len(idx), len(q), n_t, keep_history)
+        args = args + (np.zeros(1, dtype=np.int64),) + res
+        _announce_compile(kernel, args)
+        _on_threads(lambda: kernel(*args), min(n_threads, len(chunk_fire)))
         for a_, b_ in zip(out[:5], res[:5]):
             a_[idx] = b_
         if keep_history:

@@ -2,11 +2,12 @@
 
 numba compiles the batch kernels of :mod:`steelfire.models.heat` (eq (4.25) bare, eq (4.27) protected) and
 :mod:`steelfire.models.conduction` (dry members with a constant conductivity; the others) on first use and
-keeps the machine code in its on-disk cache. Compiling takes about 10 s a kernel on a 2-core machine, one
-after the other inside a run. On the first run after installing, :func:`prepare` compiles the missing ones
-a run needs (:func:`needed`) in short processes side by side instead, each by a tiny run with the argument
-types of the real runs, and the run then loads them from the cache. Nothing here changes what a run
-computes: if a process fails, the run compiles the kernel itself.
+keeps the machine code in its on-disk cache. Compiling takes 3 to 13 s a kernel on a 2-core machine (eq
+(4.25) the least, the general conduction kernel the most), one after the other inside a run. On the first
+run after installing, :func:`prepare` compiles the missing ones a run needs (:func:`needed`) in short
+processes side by side instead, each by a tiny run with the argument types of the real runs, and the run
+then loads them from the cache. Nothing here changes what a run computes: if a process fails, the run
+compiles the kernel itself.
 """
 
 from __future__ import annotations
