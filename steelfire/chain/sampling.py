@@ -811,6 +811,44 @@ def _keyed(q: float) -> str:
     return f"{q:g}"
 
 
+#: Significant figures of the probabilities the section gives (as steelfire.results.sig).
+PROBABILITY_DIGITS = 6
+
+
+def _sig_outward(v, up: bool, digits: int = PROBABILITY_DIGITS):
+    """``v`` to ``digits`` significant figures, rounded up (``up``) or down, never towards the inside of
+    an interval: a rounded upper bound is never below the exact one (a target compared with the shown
+    figure is then judged on the safe side). None for None and non-finite values."""
+    if v is None or not math.isfinite(float(v)):
+        return None
+    v = float(v)
+    if v == 0.0:
+        return 0.0
+    r = float(f"{v:.{digits - 1}e}")
+    if (r < v) if up else (r > v):
+        ulp = 10.0 ** (math.floor(math.log10(abs(v))) - (digits - 1))  # a unit of v's last figure
+        r = float(f"{(r + ulp if up else r - ulp):.{digits - 1}e}")
+    return r
+
+
+def _interval(lo, hi) -> list:
+    return [_sig_outward(lo, up=False), _sig_outward(hi, up=True)]
+
+
+def _applies(route: str, protected: bool) -> bool:
+    """Whether an equivalence route gives a time for the member (CIB W14: protected members only)."""
+    return protected or route != "cib_w14"
+
+
+def fractile_basis(q: float, n: int) -> dict:
+    """How the q fractile of n fires is read: its rank k = ceil(q n), the fires above it, the rank of its
+    one-sided 95 % upper confidence bound (None: too few fires) and the fewest fires that give one
+    (:func:`steelfire.models.variability.fractile_upper_rank`)."""
+    k = V._order_index(q, n)
+    return {"rank": k, "fires_above": n - k, "upper_95_rank": V.fractile_upper_rank(q, n),
+            "fires_for_upper_95": V.fires_for_upper_bound(q)}
+
+
 @dataclass(eq=False)
 class SampleRun:
     """The result of a sampling run: the merged counts, the per-fire table, and what the output says
@@ -863,13 +901,19 @@ class SampleRun:
         q_t = spec.target_fractile
         fr = self.fractiles()
         peak_fr = {q: tl.peak_fractile(q) for q in fr}
-        times = {r: tl.equivalent_time_fractile(r, q_t) for r in ROUTES if r in tl.equivalent_time}
+        times = {r: self.route_fractiles(r, q_t) for r in ROUTES if r in tl.equivalent_time}
+        bounds = {r: self.route_fractiles(r, q_t, upper=True) for r in ROUTES if r in tl.equivalent_time}
+        scope = self.scope()
+        n_out = scope["out_of_scope_fires"]
+        n_in = self.fires - n_out
+        in_scope = None
+        if n_in > 0:
+            in_scope = V.exceedance_probability(ex.count - self.counts.exceed_out_of_scope, n_in)
         annual = None
         if spec.ignition_rate_per_m2_year is not None:
             args = (self.floor_area_m2, spec.ignition_rate_per_m2_year, spec.suppression_failure_probability)
             annual = tuple(np.atleast_1d(V.annual_exceedance_probability(p, *args))
                            for p in (ex.probability, ex.lower, ex.upper))
-        scope = self.scope()
 
         def num(v, digits=2):
             v = float(v)
@@ -877,17 +921,30 @@ class SampleRun:
 
         members = []
         for i, name in enumerate(self.names):
-            t_frac = {r: num(times[r][i]) if r in times else None for r in ROUTES}
-            period = {r: (V.period_covering(times[r][i]) if r in times and math.isfinite(times[r][i]) else None)
+            applies = {r: r in times and _applies(r, bool(self.protected[i])) for r in ROUTES}
+            t_frac = {r: num(times[r][i]) if applies[r] else None for r in ROUTES}
+            period = {r: (V.period_covering(times[r][i]) if applies[r] and math.isfinite(times[r][i]) else None)
                       for r in ROUTES}
+            # a fractile no listed period covers (above R240, or beyond the times computed: +inf) is
+            # said so, apart from a route that gives no time for this member (None)
+            uncovered = {r: (period[r] is None) if applies[r] else None for r in ROUTES}
+            t_up = {r: num(bounds[r][i]) if applies[r] else None for r in ROUTES}
+            period_up = {r: (V.period_covering(bounds[r][i]) if applies[r] and math.isfinite(bounds[r][i])
+                             else None) for r in ROUTES}
             req = self.required_minutes[i]
-            covers = {r: (None if req is None or t_frac[r] is None else bool(times[r][i] <= req + 1e-9))
+            covers = {r: (None if req is None or not applies[r] else bool(times[r][i] <= req + 1e-9))
                       for r in ROUTES}
             d = {"name": name, "exceedance_probability": sig(ex.probability[i]),
-                 "exceedance_interval": [sig(ex.lower[i]), sig(ex.upper[i])],
+                 "exceedance_interval": _interval(ex.lower[i], ex.upper[i]),
+                 "exceedance_probability_in_scope_fires": None if in_scope is None else sig(in_scope.probability[i]),
+                 "exceedance_interval_in_scope_fires": None if in_scope is None else _interval(
+                     in_scope.lower[i], in_scope.upper[i]),
                  "peak_steel_fractiles_C": {_keyed(q): num(peak_fr[q][i]) for q in fr},
                  "equivalent_time_at_fractile_min": t_frac,
                  "period_covering_fractile": period,
+                 "no_period_covers_fractile": uncovered,
+                 "equivalent_time_at_fractile_upper_95_min": t_up,
+                 "period_covering_fractile_upper_95": period_up,
                  "kind": self.kinds[i], "critical_temperature_C": num(self.critical_C[i]),
                  "protection_thickness_mm": self.thickness_mm[i],
                  "required_minutes": req, "required_covers_fractile": covers,
@@ -898,11 +955,12 @@ class SampleRun:
                  "above_hottest_gas_fires": int(self.counts.above_gas[i]),
                  "equal_temperature_beyond_horizon_fires": int(self.counts.beyond_horizon[i]),
                  "annual_exceedance_probability": None if annual is None else sig(annual[0][i]),
-                 "annual_exceedance_interval": None if annual is None else [sig(annual[1][i]), sig(annual[2][i])]}
+                 "annual_exceedance_interval": None if annual is None else _interval(annual[1][i], annual[2][i])}
             if self.sizing is not None:
                 s = self.sizing[i]
                 d["sizing"] = None if s is None else {
                     k: (sig(v) if isinstance(v, float) else
+                        _interval(*v) if k == "exceedance_interval" and v is not None else
                         [sig(x) for x in v] if isinstance(v, list) else v) for k, v in s.items()}
             members.append(d)
         return {
@@ -911,7 +969,18 @@ class SampleRun:
             "members": members,
             "target_fractile": q_t, "target_probability": spec.target_probability,
             "confidence": V.CONFIDENCE,
-            "interval": "Clopper-Pearson (exact binomial), two-sided",
+            "interval": "Clopper-Pearson (exact binomial), two-sided; the ends rounded outward",
+            "probability_basis": {
+                "denominator_fires": self.fires, "out_of_scope_fires": n_out, "in_scope_fires": n_in,
+                "rule": f"exceedances / all {self.fires} sampled fires, the {n_out} outside Annex A's range included "
+                        "(computed as published; a fire without an Annex A fire counted as exceeding); "
+                        "exceedance_probability_in_scope_fires: the same over the fires within the range only"},
+            "fractile_basis": {
+                **{_keyed(q): fractile_basis(q, self.fires) for q in fr},
+                "rule": "point estimate: the k-th smallest of n fires, k = ceil(q n) (period_covering_fractile); "
+                        "upper_95: a distribution-free one-sided 95 % upper confidence bound on the fractile, the "
+                        "upper_95_rank-th smallest (period_covering_fractile_upper_95, the safe side; null where "
+                        "the fires are fewer than fires_for_upper_95)"},
             "given": "a fully developed fire (probabilities are conditional on flashover)",
             "sampled": describe(spec),
             "fire_load": {"factor": sig(self.fire_load_factor), "basis": self.fire_load_basis},
@@ -935,6 +1004,18 @@ class SampleRun:
             "backend": self.backend,
             "warnings": list(self.warnings),
         }
+
+    def route_fractiles(self, route: str, q: float, upper: bool = False) -> np.ndarray:
+        """Per member: the q fractile of ``route``'s equivalent times [min] (``upper``: its one-sided 95 %
+        upper confidence bound). A member for which the route gives a time but every fire has none
+        (equal temperature beyond the standard-fire horizon in every fire) gets +inf, not NaN: its
+        times lie beyond those computed. NaN only where the route gives no time for the member."""
+        h = self.tally.equivalent_time[route]
+        v = h.upper_bound(q) if upper else h.fractile(q)
+        for i in range(len(v)):
+            if math.isnan(v[i]) and _applies(route, bool(self.protected[i])) and h.undefined[i] > 0:
+                v[i] = np.inf
+        return v
 
     def _near_boundary(self) -> int:
         c = self.counts.fire_columns
@@ -1001,6 +1082,25 @@ def _run_warnings(run: SampleRun, setup: Setup) -> list:
     if beyond:
         w.append(f"Equal-temperature equivalence beyond the standard-fire horizon in some fires for "
                  f"{verdicts.names_text(beyond)} (counted above every time; its fractile may then be null).")
+    q_t = spec.target_fractile
+    for q in run.fractiles():
+        b = fractile_basis(q, n)
+        if b["fires_above"] == 0:
+            w.append(f"The {q:g} fractile of {n} fires is the largest sampled value (at least {math.ceil(1 / (1 - q))} "
+                     "fires are needed to place it below the largest): it may lie well below the true fractile.")
+        elif b["upper_95_rank"] is None and q == q_t:
+            w.append(f"{n} fires give no 95 % upper confidence bound on the {q:g} fractile (at least "
+                     f"{b['fires_for_upper_95']} fires are needed): the periods covering it are point estimates only.")
+    uncovered = []
+    for r in ROUTES:
+        if r not in run.tally.equivalent_time:
+            continue
+        t = run.route_fractiles(r, q_t)
+        uncovered += [f"{names[i]} ({r})" for i in range(len(names))
+                      if _applies(r, bool(run.protected[i])) and V.period_covering(t[i]) is None]
+    if uncovered:
+        w.append(f"No standard period up to R240 covers the {q_t:g} fractile of the equivalent time (above 240 min "
+                 f"or beyond the times computed) for {verdicts.names_text(uncovered)}.")
     a_v = run.counts.fire_columns
     if not np.all(run.protected):
         w.append("CIB W14 is derived for protected (insulated) members: null for the bare members.")

@@ -570,6 +570,47 @@ def _order_index(q: float, n: int) -> int:
     return min(max(math.ceil(q * n - 1e-7), 1), n)
 
 
+def fractile_upper_rank(q: float, n: int, confidence: float = CONFIDENCE) -> int | None:
+    """The rank r of the order statistic that is a one-sided upper confidence bound, at ``confidence``,
+    on the q fractile of a continuous distribution from n samples: the least r <= n with
+    P(Binomial(n, q) <= r - 1) >= confidence (the r-th smallest of n values lies at or above the q
+    fractile exactly when fewer than r values lie below it). None where no r <= n will do:
+    n < ln(1 - confidence) / ln(q) (:func:`fires_for_upper_bound`). Distribution-free order-statistic
+    bound (Wilks 1941; the binomial form, from memory).
+
+    >>> fractile_upper_rank(0.95, 59), fractile_upper_rank(0.95, 58)  # 0.95^59 = 0.0485 <= 0.05 < 0.95^58
+    (59, None)
+    """
+    k0 = _order_index(q, n)  # also checks q
+    if not 0.0 < confidence < 1.0:
+        raise InputError("confidence", confidence, "strictly between 0 and 1")
+    m = int(stats.binom.ppf(confidence, n, q))  # least m with P(B <= m) >= confidence (scipy's discrete ppf)
+    while m > 0 and stats.binom.cdf(m - 1, n, q) >= confidence:  # guard the ppf's floating point either way
+        m -= 1
+    while stats.binom.cdf(m, n, q) < confidence:
+        m += 1
+    r = max(m + 1, k0)
+    return r if r <= n else None
+
+
+def fires_for_upper_bound(q: float, confidence: float = CONFIDENCE) -> int:
+    """The fewest samples whose largest value is a one-sided upper bound at ``confidence`` on the q
+    fractile: the least n with q^n <= 1 - confidence, n = ceil(ln(1 - confidence) / ln q) (hand
+    derivation: P(all n below the fractile) = q^n). 59 for q = 0.95 at 95 % (Wilks 1941, from memory).
+
+    >>> fires_for_upper_bound(0.95), fires_for_upper_bound(0.9), fires_for_upper_bound(0.99)
+    (59, 29, 299)
+    """
+    if not 0.0 < q < 1.0:
+        raise InputError("fractile", q, "strictly between 0 and 1")
+    n = max(1, math.ceil(math.log(1.0 - confidence) / math.log(q) - 1e-9))
+    while q ** n > 1.0 - confidence:
+        n += 1
+    while n > 1 and q ** (n - 1) <= 1.0 - confidence:
+        n -= 1
+    return n
+
+
 def sample_fractile(values, q: float, axis: int = 0):
     """The q fractile of a sample: its k-th smallest value, k = ceil(q n) (the inverse of the
     empirical CDF; numpy's ``inverted_cdf``). NaN values (no result) rank above every number, so a
@@ -658,6 +699,18 @@ class Histograms:
         above the sample's own fractile. ``bins.start`` if it falls below the bins, +inf above them
         or among the NaN values (ranked last), NaN for a member with no numeric value or no fires.
         """
+        return self._order_values(lambda n: _order_index(q, n))
+
+    def upper_bound(self, q: float, confidence: float = CONFIDENCE) -> np.ndarray:
+        """Per member: a one-sided upper confidence bound at ``confidence`` on the q fractile, the
+        :func:`fractile_upper_rank`-th smallest value read to the bin's upper edge; +inf where the
+        fires are too few for one (fewer than :func:`fires_for_upper_bound`) or it reaches the values
+        above the bins or the NaN values; NaN as :meth:`fractile`."""
+        return self._order_values(lambda n: fractile_upper_rank(q, n, confidence) or n + 1)
+
+    def _order_values(self, rank) -> np.ndarray:
+        """The rank(n)-th smallest value per member (n its values), read to the upper bin edge; a rank
+        above n gives +inf."""
         table = np.concatenate([self.below[:, None], self.counts, self.above[:, None], self.undefined[:, None]],
                                axis=1)
         cum = np.cumsum(table, axis=1)
@@ -668,8 +721,8 @@ class Histograms:
         for m in range(self.members):  # one searchsorted per member: M is small beside the fires
             if n[m] == 0 or self.undefined[m] == n[m]:
                 continue
-            k = _order_index(q, int(n[m]))
-            out[m] = value_at[np.searchsorted(cum[m], k, side="left")]
+            k = rank(int(n[m]))
+            out[m] = np.inf if k > n[m] else value_at[np.searchsorted(cum[m], k, side="left")]
         return out
 
 
@@ -736,6 +789,10 @@ class Tally:
     def equivalent_time_fractile(self, route: str, q: float) -> np.ndarray:
         """Per member: the q fractile of the equivalent time [min] of ``route``, to 0.1 min (upper edge)."""
         return self.equivalent_time[route].fractile(q)
+
+    def equivalent_time_upper_bound(self, route: str, q: float, confidence: float = CONFIDENCE) -> np.ndarray:
+        """Per member: the one-sided upper confidence bound on that fractile (:meth:`Histograms.upper_bound`)."""
+        return self.equivalent_time[route].upper_bound(q, confidence)
 
 
 def tally(peak_steel_C, critical_temperature_C, equivalent_time_min: Mapping | None = None,
