@@ -396,3 +396,32 @@ def test_several_exposures_take_the_hottest_column_by_the_conduction_model():
         assert m.peak_steel_temperature_C == pytest.approx(per_col.max(), abs=0.5)
         checked += 1
     assert checked >= 1
+
+
+def test_nominal_fire_judges_the_conduction_model_at_the_required_period():
+    # Under the standard fire (no cooling) a member with a required period is judged at that period; with
+    # protection_model = "conduction" the peak reported is the conduction model's steel temperature at 60 min.
+    # Reference: the conduction model run here on ISO 834 (EN 1991-1-2 eq (3.4), iso834 above) for the case's
+    # two protected members (warehouse_standard: 300/1200/0.12, 20 mm, A_p/V 200; 800/1700/0.2, 25 mm, A_p/V 140),
+    # refined to 0.5 C: within 0.5 C. The spray's 1 % water is not credited (its moisture_delay_basis is not
+    # "tests", README), so the reference is dry too: with the water the steel at 60 min is 1.1 C cooler
+    # (measured 472.4 against 473.5 C), the chain's choice is the safe side. The value after 60 min is hotter
+    # (heating only), so the period, not the end of the run, is what is judged.
+    from steelfire.inputs.case import load_case
+
+    root = Path(__file__).resolve().parents[1]
+    case = load_case(root / "cases" / "warehouse_standard.toml")
+    case = case.__class__(**{**case.__dict__, "analysis": case.analysis.__class__(
+        **{**case.analysis.__dict__, "protection_model": "conduction"})})
+    r = steelfire.analyse(case, histories=False)
+    t = np.arange(0.0, 90.0 * 60.0 + 1.0, 5.0)
+    ms = [(200.0, 0.02, 300.0, 1200.0, 0.12, 0.0), (140.0, 0.025, 800.0, 1700.0, 0.2, 0.0)]
+    ref = C.run_converged(inputs(t, iso834(t), ms), keep_history=True)
+    at60 = ref.history_C[np.searchsorted(t, 3600.0)]
+    prot = [m for m in r.members if m.protection is not None]
+    assert [m.name for m in prot] == ["M1-B01", "M1-C01"]
+    for j, m in enumerate(prot):
+        assert m.verdict_model == "conduction" and m.required_minutes == 60.0
+        assert m.time_of_peak_steel_min == pytest.approx(60.0)
+        assert m.peak_steel_temperature_C == pytest.approx(at60[j], abs=0.5)
+        assert ref.peak_C[j] > at60[j] + 50.0
