@@ -30,8 +30,14 @@ DASH = P.DASH
 
 #: Longest title in the running header of a printed page (the title block holds it whole).
 HEADER_TITLE_MAX = 70
+#: The caution printed at the foot of every page (a page read alone still carries it).
+PAGE_CAUTION = ("Simplified code methods within their validity limits; verify by a competent fire engineer; "
+                "local codes prevail.")
 #: Member names listed in one warning of the report.
 NAMES_IN_WARNING = 40
+#: Figures in the order report.html.j2 places them (figures are numbered in this order).
+FIGURE_ORDER = ("design_fire", "heat_release", "height_profile", "plan_view", "steel_temperatures", "resistance",
+                "time_equivalence", "thickness")
 
 
 # ----------------------------------------------------------------------------------------------
@@ -89,6 +95,26 @@ def _span(c):
     return Markup(f'<span class="{_esc(c["cls"])}"{key}>{_esc(c["text"])}</span>')
 
 
+#: Most decimals a temperature or time is shown with where one decimal would hide its order against its limit.
+MOST_DECIMALS = 4
+
+
+def decimals_apart(a, b) -> int:
+    """Decimals (from one up to ``MOST_DECIMALS``) at which ``a`` and its limit ``b``, shown side by side, do not
+    look equal unless they are: 549.96 beside a 550 critical is shown 549.96, not 550.0."""
+    for d in range(P.FIXED_DECIMALS, MOST_DECIMALS + 1):
+        if a == b or P.fixed(a, d) != P.fixed(b, d):
+            return d
+    return MOST_DECIMALS
+
+
+def _refine(c, v, d):
+    """Cell ``c`` with its number ``v`` shown to ``d`` decimals (where more than the usual one are needed)."""
+    if d == P.FIXED_DECIMALS or not P.is_number(v):
+        return c
+    return {**c, "text": P.fixed(v, d)}
+
+
 def text_cell(text, cls="txt"):
     return {"text": text, "key": None, "cls": cls}
 
@@ -100,8 +126,11 @@ def verdict_cell(doc, key, word):
     return {"text": DASH if word is None else word, "key": key, "cls": cls}
 
 
-def flag_cell(doc, key, yes, no, none=DASH):
+def flag_cell(doc, key, yes, no, none=DASH, invert=False):
+    """A yes/no cell; ``invert``: the value True is the bad one (``yes`` then names the False word)."""
     v = get(doc, key)
+    if invert and isinstance(v, bool):
+        v = not v
     word = {True: yes, False: no}.get(v, none)
     cls = {True: "flag ok", False: "flag bad"}.get(v, "flag null")
     return {"text": word, "key": key, "cls": cls}
@@ -223,7 +252,7 @@ def _page_marks(doc):
     from markupsafe import Markup
 
     return {"top_left": Markup(css_string(title)), "top_right": Markup(css_string(" \u00b7 ".join(right))),
-            "bottom_left": Markup(css_string(" \u00b7 ".join(foot)))}
+            "bottom_left": Markup(css_string(" \u00b7 ".join(foot) + "\n" + PAGE_CAUTION))}
 
 
 def _summary(doc, sizing):
@@ -370,13 +399,21 @@ def _members(doc):
                 {**cell(doc, k + "critical_temperature_source"), "cls": "txt ref"},
                 cell(doc, k + "required_minutes", "input")]
         inputs.append(row)
+        # a peak and its critical temperature (a time and its period) are shown with the decimals that keep
+        # their order visible: a rounded peak equal to the critical beside FAIL (or PASS) would contradict it
+        peak, crit = m.get("peak_steel_temperature_C"), m.get("critical_temperature_C")
+        d = decimals_apart(peak, crit) if P.is_number(peak) and P.is_number(crit) else P.FIXED_DECIMALS
+        if P.is_number(m.get("margin_C")):   # nor a margin of 0.0 beside a fail (or -0.0 beside a pass)
+            d = max(d, decimals_apart(m["margin_C"], 0.0))
+        t_std, t_req = m.get("standard_fire_time_to_critical_min"), m.get("required_minutes")
+        dt = decimals_apart(t_std, t_req) if P.is_number(t_std) and P.is_number(t_req) else P.FIXED_DECIMALS
         verdicts.append([{**cell(doc, k + "name"), "cls": "txt name"},
-                         cell(doc, k + "peak_steel_temperature_C", "temperature"),
+                         _refine(cell(doc, k + "peak_steel_temperature_C", "temperature"), peak, d),
                          cell(doc, k + "time_of_peak_steel_min", "time"),
-                         cell(doc, k + "critical_temperature_C", "temperature"),
-                         cell(doc, k + "margin_C", "temperature"),
+                         _refine(cell(doc, k + "critical_temperature_C", "temperature"), crit, d),
+                         _refine(cell(doc, k + "margin_C", "temperature"), m.get("margin_C"), d),
                          verdict_cell(doc, k + "passes", P.design_fire_verdict(m)),
-                         std_cell(doc, k + "standard_fire_time_to_critical_min"),
+                         _refine(std_cell(doc, k + "standard_fire_time_to_critical_min"), t_std, dt),
                          cell(doc, k + "required_minutes", "input"),
                          verdict_cell(doc, k + "meets_required_period", P.period_verdict(m))])
     from markupsafe import Markup
@@ -412,8 +449,10 @@ TRACE_LABELS = {
                                           "EN 1993-1-2 4.2.3"),
     "resistance.fails_at_20C": ("fails already at 20 C", "", "", ""),
     "resistance.clause": ("resistance: clause", "", "", ""),
-    "conduction_peak_C": ("peak steel by the conduction model", "", "C", "protection_model = conduction"),
-    "model_difference_C": ("conduction minus lumped peak", "", "C", ""),
+    "conduction_peak_C": ("peak steel by the conduction model", "", "C",
+                          "1-D conduction through the protection (finite volumes)"),
+    "model_difference_C": ("eq (4.27) peak minus conduction peak", "", "C", "lumped minus conduction"),
+    "verdict_model": ("verdict rests on", "", "", "EN 1993-1-2 eq (4.27), or conduction where (4.27) leaves its ground"),
     "lumped_valid": ("lumped model valid", "", "", ""),
     "step_sensitivity_C": ("peak change when the time step halves", "", "C", ""),
     "marginal": ("marginal", "", "", ""),
@@ -422,7 +461,8 @@ TRACE_LABELS = {
 TRACE_GROUPS = {"details": "intermediate values of the steel temperature",
                 "resistance": "member resistance in fire (EN 1993-1-2 4.2.3)",
                 "conduction": "conduction model check"}
-_CONDUCTION_KEYS = ("conduction_peak_C", "model_difference_C", "lumped_valid", "step_sensitivity_C", "marginal")
+_CONDUCTION_KEYS = ("verdict_model", "conduction_peak_C", "model_difference_C", "lumped_valid", "step_sensitivity_C",
+                    "marginal")
 #: Members per traceability table (columns).
 TRACE_COLUMNS = 5
 
@@ -504,8 +544,12 @@ def _details(doc):
                     key = f"members.{i}.{path}"
                     if path not in vals:
                         cells.append(text_cell(DASH, "na"))
-                    elif path == "marginal":
-                        cells.append(flag_cell(doc, key, "MARGINAL", "no"))
+                    elif path == "marginal":   # a marginal verdict is not one to sign: shown as bad
+                        cells.append(flag_cell(doc, key, "no", "MARGINAL", invert=True))
+                    elif path == "verdict_model":
+                        v = get(doc, key)
+                        cells.append({"text": {"lumped": "eq (4.27)", "conduction": "conduction"}.get(v, v or DASH),
+                                      "key": key, "cls": "txt" if v else "txt null"})
                     elif path == "lumped_valid":
                         cells.append(flag_cell(doc, key, "yes", "NO"))
                     else:
@@ -547,8 +591,10 @@ def _equivalence(doc):
         k = f"members.{i}."
         e = m.get("equivalence") or {}
         conf = P.route_conflicts(doc, m)
+        t_std, t_req = m.get("standard_fire_time_to_critical_min"), m.get("required_minutes")
+        dt = decimals_apart(t_std, t_req) if P.is_number(t_std) and P.is_number(t_req) else P.FIXED_DECIMALS
         row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "required_minutes", "input"),
-               std_cell(doc, k + "standard_fire_time_to_critical_min")]
+               _refine(std_cell(doc, k + "standard_fire_time_to_critical_min"), t_std, dt)]
         for r in routes:
             c = cell(doc, k + "equivalence." + P.ROUTE_KEYS[r], "time", none="n/a")
             if any(x["route"] == r for x in conf):
@@ -571,16 +617,16 @@ def _equivalence(doc):
 ANNEX_F_ROWS = (
     ("design fire load density", "q_f,d", "design_fire_load_MJ_m2", "MJ/m2", "EN 1991-1-2 eq (E.1)"),
     ("thermal inertia", "b", "thermal_inertia", "J/(m2 s^0.5 K)", "Annex A (3)"),
-    ("conversion factor", "k_b", "k_b", "min m2/MJ", "Table F.1"),
-    ("band of b", "", "k_b_band", "", "Table F.1"),
+    ("conversion factor", "k_b", "k_b", "min m2/MJ", "Table F.2"),
+    ("band of b", "", "k_b_band", "", "Table F.2"),
     ("vertical openings / floor area", "alpha_v", "alpha_v", "-", "eq (F.2), held to 0.025..0.25"),
     ("horizontal openings / floor area", "alpha_h", "alpha_h", "-", "eq (F.2)"),
     ("", "b_v", "b_v", "-", "eq (F.2): 12.5(1 + 10 alpha_v - alpha_v^2) >= 10"),
     ("height factor (6.0/H)^0.3", "", "height_factor", "-", "eq (F.2)"),
     ("ventilation factor", "w_f", "w_f", "-", "eq (F.2), at least 0.5"),
     ("opening factor", "O", "opening_factor_m05", "m^0.5", "Annex A (3)"),
-    ("correction factor", "k_c", "k_c", "-", "Table F.2"),
-    ("basis of k_c", "", "k_c_basis", "", "Table F.2"),
+    ("correction factor", "k_c", "k_c", "-", "Table F.1"),
+    ("basis of k_c", "", "k_c_basis", "", "Table F.1"),
     ("equivalent time q_f,d k_b w_f k_c", "t_e,d", "t_e_min", "min", "eq (F.1)"),
     ("small compartment: ventilation factor O^-1/2 A_f/A_t", "w_f", "small_compartment.w_f", "-", "eq (F.3)"),
     ("small compartment: equivalent time", "t_e,d", "small_compartment.t_e_min", "min", "eq (F.1) with (F.3)"),
@@ -669,6 +715,11 @@ def _sizing(doc):
         bare = r.protection is None
         spec_w, spec_c = word[r.specified_ok]
         prop_w, prop_c = word[r.proposed_ok]
+        if r.proposed_ok is False:   # the member's own verdict word, as the verdict table shows it
+            m = doc["members"][idx[r.name]]
+            dv, pv = P.design_fire_verdict(m), P.period_verdict(m)
+            prop_w = "FAIL" if dv == "FAIL" else "SHORT" if pv == "SHORT" else \
+                "marginal" if "marginal" in (dv, pv) else prop_w
         ch = P.change_text(r)
         rows.append([{**cell(doc, f"members.{idx[r.name]}.name"), "cls": "txt name"},
                      text_cell("bare steel") if bare else cell(doc, f"members.{idx[r.name]}.protection"),
@@ -709,6 +760,58 @@ def _code_values(doc):
     return {"rows": rows, "settings": settings, "overridden": len(over)}
 
 
+#: Files ``steelfire sample --out`` writes beside the report (steelfire.outputs.sampling).
+SAMPLE_FILES = ("variability_members.csv", "variability_samples.csv", "fig_variability_peaks.png, .svg",
+                "fig_variability_times.png, .svg")
+_ROUTES = (("annex_f", "Annex F"), ("cib_w14", "CIB W14"), ("equal_temperature", "equal steel temp."))
+
+
+def _variability(doc, command):
+    """The sampled fire severity: None for a check or size run; for a sampling run, what the record holds (the
+    document's ``variability`` section where it has one, as rows keyed to it) and the files it does not."""
+    v = doc.get("variability")
+    if command != "sample" and not v:
+        return None
+    out = {"files": list(SAMPLE_FILES), "rows": [], "basis": None, "fractile": None, "warnings": []}
+    if not isinstance(v, dict):
+        return out
+    q = v.get("target_fractile")
+    qk = f"{q:g}" if P.is_number(q) else ""
+    out["fractile"] = qk
+    out["basis"] = (f"{v.get('fires')} fires ({v.get('method')}, seed {v.get('seed')}); probabilities given "
+                    f"{v.get('given')}; {P.fmt(v.get('confidence'))} intervals: {v.get('interval')}; "
+                    f"{v.get('out_of_scope_fires')} fires outside EN 1991-1-2 Annex A's range, included as published")
+    for i, m in enumerate(v.get("members") or []):
+        k = f"variability.members.{i}."
+        row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "exceedance_probability", "factor"),
+               cell(doc, k + "exceedance_interval", "factor"),
+               cell(doc, k + "peak_steel_fractiles_C." + qk, "temperature"),
+               cell(doc, k + "critical_temperature_C", "temperature")]
+        for r, _ in _ROUTES:
+            c = cell(doc, k + "equivalent_time_at_fractile_min." + r, "time", none="n/a")
+            per = get(doc, k + "period_covering_fractile." + r)
+            row.append({**c, "note": per} if per else c)
+        row.append(cell(doc, k + "required_minutes", "input"))
+        out["rows"].append(row)
+    out["warnings"] = [str(w) for w in v.get("warnings") or []]
+    return out
+
+
+def _files(doc, histories_kept):
+    """The files of the run the page names (``report.files``), histories.csv described by what it holds."""
+    files = list((doc.get("report") or {}).get("files") or [])
+    out = []
+    for f in files:
+        if f == "report.html" or f.startswith("fig_"):
+            continue
+        what = {"results.json": "every value exact", "members.csv": "the member schedule and verdicts",
+                "members.xlsx": "the same as a spreadsheet",
+                "histories.csv": ("gas and steel temperature histories" if histories_kept else
+                                  "the gas temperature only (steel histories not kept)")}.get(f)
+        out.append(f"{f} ({what})" if what else f)
+    return out
+
+
 def _warnings(doc):
     return [{"text": text, "count": count} for text, count in P.warning_lines(doc, most=NAMES_IN_WARNING)]
 
@@ -721,6 +824,9 @@ def context(doc, figures=()) -> dict:
 
     rep = doc.get("report") or {}
     figs = {}
+    # numbered in the order the page shows them (the template's order), not the order they were drawn
+    place = {name: i for i, name in enumerate(FIGURE_ORDER)}
+    figures = sorted(figures, key=lambda f: place.get(f.name, len(place)))
     for n, f in enumerate(figures, start=1):
         figs[f.name] = {"no": n, "name": f.name, "caption": f.caption,
                         "svg": Markup(plots.inline_svg(f.svg, f"fig{n}", label=f.caption))}
@@ -736,6 +842,8 @@ def context(doc, figures=()) -> dict:
         "fire": {"curve": doc["fire"].get("curve"), "inputs": _fire_inputs(doc), "values": _fire_values(doc)},
         "members": _members(doc),
         "histories_kept": rep.get("histories_kept", 1) != 0,
+        "variability": _variability(doc, run.get("command")),
+        "written": _files(doc, rep.get("histories_kept", 1) != 0),
         "selection": rep.get("selection"),
         "equivalence": _equivalence(doc),
         "sizing": _sizing(doc) if sizing else None,

@@ -238,6 +238,17 @@ def _fmt(v, kind="factor") -> str:
     return fmt(v, kind)
 
 
+def _margin_text(m) -> str:
+    """The margin as the verdict table shows it: more decimals where one would show 0.0 beside a verdict."""
+    from steelfire.outputs import present as P
+    from steelfire.outputs.report.html import decimals_apart
+
+    peak, crit, margin = m.get("peak_steel_temperature_C"), m.get("critical_temperature_C"), m.get("margin_C")
+    if not (_num(peak) and _num(crit) and _num(margin)):
+        return _fmt(margin, "temperature")
+    return P.fixed(margin, max(decimals_apart(peak, crit), decimals_apart(margin, 0.0)))
+
+
 def _fire_row(doc, key):
     """The design fire's report row for ``key`` (label, symbol, unit, clause), or None."""
     for r in doc.get("fire_rows") or []:
@@ -690,7 +701,7 @@ def steel_temperatures_figure(doc, result, idx, note):
                 ls="none", label="peak steel", clip_on=False, zorder=5)
         verdict = _verdict(d)
         title = (f"{_fit(d['name'], title_in, 8.0, title_weight)}\n"
-                 f"margin {_fmt(d['margin_C'], 'temperature')} °C, {verdict}")
+                 f"margin {_margin_text(d)} °C, {verdict}")
         if gov is not None:
             size = short[gov[i]] if gov[i] is not None and gov[i] < len(short) else "governing fire not named"
             title += "\n" + _fit(f"{size} governs", title_in, 8.0, title_weight)
