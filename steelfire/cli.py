@@ -189,7 +189,7 @@ def _run_sample(args) -> int:
     run = sampling.run(case, fires=fires, seed=seed, workers=workers, scheduler=args.scheduler, size=args.size,
                        progress=False if args.json else None)
     section = run.to_dict()
-    _write(result, args, case, "sample")
+    _write(result, args, case, "sample", sections={"variability": section})
     if args.out is not None:
         from steelfire.outputs import sampling as sampling_out
 
@@ -209,7 +209,10 @@ def _run_sample(args) -> int:
 
 
 def _sample_summary(section) -> str:
-    """The sampled fires in a few lines per member."""
+    """The sampled fires in a few lines per member, the section's warnings after them. Interval ends are
+    shown rounded outward (a shown upper end is never below the computed one)."""
+    from steelfire.outputs.present import outward
+
     lines = [f"Sampled fires: {section['fires']} ({section['method']}, seed {section['seed']}); "
              f"outside Annex A's scope: {section['out_of_scope_fires']}."]
     frac = section.get("target_fractile")
@@ -217,8 +220,15 @@ def _sample_summary(section) -> str:
     lines.append(head)
     for m in section["members"]:
         lo, hi = m["exceedance_interval"]
-        periods = ", ".join(f"{r}: {p or '-'}" for r, p in (m.get("period_covering_fractile") or {}).items())
-        lines.append(f"{m['name'][:24]:<24} {m['exceedance_probability']:>10.4f} {f'[{lo:.4f}, {hi:.4f}]':>19}  {periods}")
+        none = m.get("no_period_covers_fractile") or {}
+        periods = ", ".join(f"{r}: {p or ('none up to R240' if none.get(r) else '-')}"
+                            for r, p in (m.get("period_covering_fractile") or {}).items())
+        interval = f"[{outward(lo, False, 4)}, {outward(hi, True, 4)}]"
+        lines.append(f"{m['name'][:24]:<24} {m['exceedance_probability']:>10.4f} {interval:>19}  {periods}")
+    if any("none up to R240" in line for line in lines):
+        lines.append("none up to R240: the fractile's equivalent time is above 240 min or beyond the times computed; "
+                     "-: the route gives no time for the member")
+    lines += [f"warning: {w}" for w in section.get("warnings", [])]
     return "\n".join(lines)
 
 
@@ -283,14 +293,15 @@ def write_schedule_csv(result, case, path):
         raise
 
 
-def _write(result, args, case, command):
+def _write(result, args, case, command, sections=None):
     if args.out is None:
         return
     from steelfire.errors import InputError
     from steelfire.outputs.files import write_outputs
 
     try:
-        args.written = write_outputs(result, args.out, args.case, command=command, case=case).document
+        args.written = write_outputs(result, args.out, args.case, command=command, case=case,
+                                     sections=sections).document
     except OSError as exc:
         raise InputError("--out", args.out, f"could not be written ({exc.strerror or exc})") from None
 

@@ -262,3 +262,73 @@ def test_sampled_statistics_are_shown_where_the_document_holds_them(plant_doc):
     for i, m in enumerate(doc["variability"]["members"]):
         c = page.keyed[f"variability.members.{i}.exceedance_probability"]
         assert float(c["text"]) == pytest.approx(m["exceedance_probability"], rel=1e-3, abs=1e-4)
+
+
+# ---- the same rules in the terminal summary and the sample record ----------------------------------
+
+@pytest.mark.parametrize("delta, passes", [(-0.04, True), (+0.04, False)])
+def test_terminal_never_shows_a_peak_equal_to_its_critical_beside_a_verdict(plant_doc, delta, passes):
+    # as the report test above, for the terminal's member table and its list of members that fail
+    # (hand calculation: 549.96 and 550.04 both round to 550.0 at one decimal)
+    from steelfire.outputs import terminal
+
+    doc = copy.deepcopy(plant_doc)
+    m = next(m for m in doc["members"] if m["name"] == "RC-01")
+    crit = m["critical_temperature_C"]
+    m.update(peak_steel_temperature_C=round(crit + delta, 6), margin_C=round(-delta, 6), passes=passes,
+             marginal=False, step_sensitivity_C=0.01)
+    text = terminal.render(doc, wide=True)
+    row = next(line.split() for line in text.splitlines() if line.startswith("RC-01"))
+    nums = [x for x in row if re.fullmatch(r"[+-]?\d+\.\d+", x)]
+    shown_crit, peak, margin = float(nums[-4]), float(nums[-3]), float(nums[-1])
+    assert (peak < shown_crit) if passes else (peak > shown_crit), row
+    assert margin != 0.0 and (margin > 0) == passes, row
+    if not passes:   # the reason the summary gives (terminal and report)
+        from steelfire.outputs import present
+
+        why = " ".join(w for name, ws in present.shortfalls(doc) if name == "RC-01" for w in ws)
+        a, b = re.search(r"peak steel ([\d.]+) C exceeds the critical ([\d.]+) C", why).groups()
+        assert float(a) > float(b), why
+
+
+def test_terminal_sizing_table_uses_the_members_verdict_words():
+    # archive_room size, T1-HANGER (see the report test above): the terminal's proposed design says FAIL, and
+    # a design fire no supplied thickness meets is "none meets", not "n/a"
+    from steelfire.outputs import terminal
+
+    doc = full_doc("archive_room", size=True)
+    text = terminal.render(doc, sizing=True, wide=True)
+    rows = [line.split() for line in text.splitlines() if line.startswith("T1-HANGER")]
+    sizing_row = next(r for r in rows if "none" in r or "meets" in r or "FAIL" in r[-1:])
+    assert sizing_row[-1] == "FAIL", sizing_row
+    assert "n/a" not in sizing_row
+
+
+def test_sample_record_holds_the_sampled_statistics(sample_out):
+    # `steelfire sample --out`: results.json carries the variability section and the record shows it, each
+    # interval with its ends rounded outward (never inside the exact Clopper-Pearson interval)
+    doc = json.loads((sample_out / "results.json").read_text("utf-8"))
+    v = doc["variability"]
+    page = parse((sample_out / "report.html").read_text("utf-8"))
+    assert "Sampled fire severity" in page.plain()
+    for i, m in enumerate(v["members"]):
+        lo, hi = m["exceedance_interval"]
+        a, b = (float(x) for x in page.keyed[f"variability.members.{i}.exceedance_interval"]["text"].split(" - "))
+        assert a <= lo and b >= hi, (a, b, lo, hi)
+
+
+def test_sample_terminal_summary_shows_the_warnings_and_uncovered_fractiles(capsys):
+    # a sample run's terminal summary ends with the section's warnings, and marks a route no period covers
+    from steelfire.cli import _sample_summary
+
+    section = {"fires": 50, "method": "random", "seed": 1, "out_of_scope_fires": 0, "target_fractile": 0.9,
+               "warnings": ["The 0.99 fractile of 50 fires is the largest sampled value."],
+               "members": [{"name": "B1", "exceedance_interval": [0.0123456, 0.0333331],
+                            "exceedance_probability": 0.02,
+                            "period_covering_fractile": {"annex_f": "R60", "cib_w14": None, "equal_temperature": None},
+                            "no_period_covers_fractile": {"annex_f": False, "cib_w14": None,
+                                                          "equal_temperature": True}}]}
+    text = _sample_summary(section)
+    assert "equal_temperature: none up to R240" in text and "cib_w14: -" in text
+    assert "[0.0123, 0.0334]" in text          # outward: 0.0123456 down, 0.0333331 up (hand calculation)
+    assert text.splitlines()[-1] == "warning: The 0.99 fractile of 50 fires is the largest sampled value."

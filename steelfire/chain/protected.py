@@ -18,9 +18,6 @@ import numpy as np
 #: Eq (4.27) is taken as breaking the second law where its steel is more than this above the hottest gas
 #: reached so far [C] (a margin for rounding on the grid).
 SECOND_LAW_TOLERANCE_C = 0.5
-#: Protected members re-run by eq (4.27) at a time, with their histories, for its second-law check where the
-#: check's own histories are not kept (bounds the memory: this many members x the grid x the columns they see).
-SECOND_LAW_BLOCK = 2048
 #: Members whose peak (by either model) comes within this of the critical temperature get the conduction
 #: model refined to 0.5 C; the others keep its least resolution (8 cells), which the model's tests show
 #: within about 1 C for dry members [C].
@@ -49,26 +46,6 @@ def applies(case, fire) -> bool:
     return fire.cools or case.fire.curve == "table" or case.analysis.protection_model == "conduction"
 
 
-def lumped_excess_C(case, fire, exposures, cols, prot, design, history_kept):
-    """Per protected member ``prot``: the most eq (4.27)'s steel rises above the hottest gas reached so far at any
-    time of the run [C] (the largest over the columns it sees).
-
-    The kernels give this over the whole history only where the history is kept; otherwise they compare the
-    peak alone, which misses a breach before the peak (a drop of the gas that lifts eq (4.27)'s steel above
-    the gas, a later and hotter gas then hiding it). So where the check keeps no histories the protected members
-    are run again with theirs, in blocks of :data:`SECOND_LAW_BLOCK`, and the verdict's model does not depend
-    on whether histories are kept."""
-    if history_kept:
-        return design.excess_C[prot]
-    out = np.empty(len(prot))
-    for b in range(0, len(prot), SECOND_LAW_BLOCK):
-        sel = prot[b:b + SECOND_LAW_BLOCK]
-        r, _ = exposures.run(case.code, cols, select=sel, keep_history=True, alpha_c=fire.alpha_c,
-                             nominal_fire=fire.nominal)
-        out[b:b + len(sel)] = r.excess_C
-    return out
-
-
 def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last, history, judged_at, query,
              governing):
     """Run the conduction model beside eq (4.27) for the protected members (in place: ``peak``,
@@ -86,7 +63,7 @@ def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last,
     keep = history is not None or bool(np.any(judged_at[prot]))
     p8, t8, _, l8, h8, _, g8 = exposures.run_conduction(code, cols, prot, keep_history=keep)
     lumped_peak = peak[prot].copy()
-    valid = lumped_excess_C(case, fire, exposures, cols, prot, design, history is not None) <= SECOND_LAW_TOLERANCE_C
+    valid = design.excess_C[prot] <= SECOND_LAW_TOLERANCE_C   # over the whole run (heat.run)
     refine = (~valid) | (model == "conduction") | (np.minimum(np.abs(p8 - crit[prot]),
                                                               np.abs(lumped_peak - crit[prot])) < REFINE_WITHIN_C)
     cp, ct, cl, cg, change = p8.copy(), t8.copy(), l8.copy(), g8.copy(), np.full(len(prot), np.nan)

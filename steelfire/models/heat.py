@@ -101,8 +101,8 @@ class ThermalRun(NamedTuple):
     """What a call returns, per row: the peak steel temperature [C] and its first time [s]; the first
     time the steel reaches the row's threshold, linear within the step [s] (NaN: never); the steel
     temperature at the queried grid indices (N x Q); the last step's increment [C]; the excess of the
-    steel over the hottest gas reached so far [C] (at the peak, or the largest over the history when it
-    is kept; above 0 the result breaks the second law, see eq (4.27)'s cooling-phase term); the history
+    steel over the hottest gas reached so far [C] (the largest at any step of the run; above 0 the result
+    breaks the second law, see eq (4.27)'s cooling-phase term); the history
     (T x N) when kept, else 0 x 0."""
 
     peak_C: np.ndarray
@@ -277,7 +277,7 @@ def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cro
 @nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
                       rho_a, threshold_C, query_idx, keep_history, ca_k, ex_k, tickets, peak, peak_t, cross, at_q,
-                      last, hist):
+                      last, hist, excess):
     """Eq (4.27) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
     n_k = lam_T.shape[1]
@@ -312,10 +312,13 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                 _knots(lam_T, lam_v, lam_n[m], m, j, tk, vk, sk)
                 lamj[j] = lam_v[m, 0]
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
+            gm = gas[0]                 # hottest gas so far
+            exc = np.full(w, 20.0 - gm)  # most the steel has been above it
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
                 g0 = gas[i]       # read once a step: a store into the chunk's arrays could not change it
                 g1 = gas[i + 1]
+                gm = max(gm, g1)
                 # lambda_p at the steel temperature: the segment whose knot is the last one below it;
                 # constant conductivities (one knot) keep the value set before the time loop
                 if n_k > 1:
@@ -352,15 +355,18 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                     new = (x if at else MOISTURE_PLATEAU_C) if hold else new
                     dl[j] = new - x
                     th[j] = new
+                    exc[j] = max(exc[j], new - gm)
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
+            for j in range(w):
+                excess[lo + j] = exc[j]
             c = _take_ticket(tickets)
 
 
 @nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alpha_c, eps_res, rho_a, threshold_C,
-                 query_idx, keep_history, ca_k, tickets, peak, peak_t, cross, at_q, last, hist):
+                 query_idx, keep_history, ca_k, tickets, peak, peak_t, cross, at_q, last, hist, excess):
     """Eq (4.25) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
     er = eps_res * STEFAN_BOLTZMANN
@@ -381,11 +387,14 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
                 ac[j] = alpha_c[lo + j]
                 thr[j] = threshold_C[lo + j]
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
+            gm = gas[0]                 # hottest gas so far
+            exc = np.full(w, 20.0 - gm)  # most the steel has been above it
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
                 i_f = float(i)
                 g0 = gas[i]       # read once a step: a store into the chunk's arrays could not change it
                 r0 = rad4[i]
+                gm = max(gm, gas[i + 1])
                 for j in range(w):
                     x = th[j]
                     ta = x + KELVIN
@@ -396,15 +405,20 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
                     dl[j] = new - x
                     th[j] = new
+                    exc[j] = max(exc[j], new - gm)
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
+            for j in range(w):
+                excess[lo + j] = exc[j]
             c = _take_ticket(tickets)
 
 
 def _outputs(n_m, n_q, n_t, keep_history):
-    """The outputs: peak, its time, crossing time (NaN: never), queried temperatures, last step, history."""
+    """The outputs: peak, its time, crossing time (NaN: never), queried temperatures, last step, history,
+    excess over the hottest gas so far."""
     hist = np.empty((n_t, n_m)) if keep_history else np.empty((0, 0))
-    return (np.empty(n_m), np.empty(n_m), np.full(n_m, np.nan), np.full((n_m, n_q), np.nan), np.zeros(n_m), hist)
+    return (np.empty(n_m), np.empty(n_m), np.full(n_m, np.nan), np.full((n_m, n_q), np.nan), np.zeros(n_m), hist,
+            np.empty(n_m))
 
 
 #: Threads that run kernels beside the caller's (:func:`_on_threads`); made on first use, kept.
@@ -493,8 +507,8 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     conductivity; protected with a table) and each group is advanced in chunks of members side by side
     over the cores, rows of one fire together. The arithmetic per member-step is that of the twins in
     tests/twins.py, rearranged to one division for eq (4.27) and with :func:`expm1_scaled` for
-    e^(phi/10) - 1; the results match them to 1e-9. ``excess_C`` compares each row's peak with the
-    hottest gas of its fire up to the time of the peak (with ``keep_history``, over the whole history).
+    e^(phi/10) - 1; the results match them to 1e-9. ``excess_C`` is the most each row's steel rises above
+    the hottest gas of its fire reached so far, at any step of the run (kept or not).
     """
     time_s = np.ascontiguousarray(fires.time_s, dtype=float)
     n_t = len(time_s)
@@ -503,7 +517,7 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     n = len(rows.fire)
     q = np.zeros(0, dtype=np.int64) if query_idx is None else np.ascontiguousarray(query_idx, dtype=np.int64)
     out = [np.empty(n), np.empty(n), np.empty(n), np.empty((n, len(q))), np.empty(n),
-           np.empty((n_t, n)) if keep_history else np.empty((0, 0))]
+           np.empty((n_t, n)) if keep_history else np.empty((0, 0)), np.empty(n)]
     bare = np.asarray(rows.bare, dtype=bool)
     lam_n = np.asarray(rows.conductivity_n, dtype=np.int64)
     groups = (np.flatnonzero(bare), np.flatnonzero(~bare & (lam_n == 1)), np.flatnonzero(~bare & (lam_n > 1)))
@@ -536,18 +550,11 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
         args = args + (np.zeros(1, dtype=np.int64),) + res
         _announce_compile(kernel, args)
         _on_threads(lambda: kernel(*args), min(n_threads, len(chunk_fire)))
-        for a_, b_ in zip(out[:5], res[:5]):
+        for a_, b_ in zip(out[:5] + out[6:], res[:5] + res[6:]):
             a_[idx] = b_
         if keep_history:
             out[5][:, idx] = res[5]
-    gas_max = np.maximum.accumulate(gas, axis=0)
-    fire = np.asarray(rows.fire, dtype=np.int64)
-    if keep_history:
-        excess = np.max(out[5] - gas_max[:, fire], axis=0) if n else np.zeros(0)
-    else:
-        k_peak = np.searchsorted(time_s, out[1])
-        excess = out[0] - gas_max[np.minimum(k_peak, n_t - 1), fire]
-    return ThermalRun(out[0], out[1], out[2], out[3], out[4], excess, out[5])
+    return ThermalRun(out[0], out[1], out[2], out[3], out[4], out[6], out[5])
 
 
 def uniform_rows(n, *, bare, section_factor_per_m, alpha_c=35.0, thickness_m=1.0, density=1.0, specific_heat=1.0,

@@ -194,7 +194,8 @@ def _commit(out: Path, payloads: dict) -> list:
     return [name for _, name in temps]
 
 
-def write_outputs(result, out_dir, case_path=None, command: str | None = None, *, case=None, now=None) -> WrittenOutputs:
+def write_outputs(result, out_dir, case_path=None, command: str | None = None, *, case=None, now=None,
+                  sections=None) -> WrittenOutputs:
     """Write the files of a run into ``out_dir`` (created if missing).
 
     Files: results.json (the document: ``result.to_dict()`` plus the run stamp, the case inputs, the
@@ -218,6 +219,9 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
         The case model the result came from, for the input tables (loaded from ``case_path`` if omitted).
     now : datetime, optional
         The time of the run stamp (default: now, UTC).
+    sections : dict, optional
+        More top-level sections of the document (``{"variability": ...}`` of a ``sample`` run): written
+        into results.json and shown by the report.
 
     Files of an earlier run that this run does not write (a thickness figure of an earlier sizing run)
     are left alone; ``results.json["report"]["files"]`` lists the files of this run.
@@ -235,6 +239,7 @@ def write_outputs(result, out_dir, case_path=None, command: str | None = None, *
     timings = {}
     t0 = time.perf_counter()
     doc = document.full(result, case=case, case_path=case_path, command=command or result.command, now=now)
+    doc.update(sections or {})
     hist_text, hist_names = tables.histories_csv(result)
     doc["report"] = plots.plan(doc, hist_names)
     xlsx = tables.members_xlsx(doc)

@@ -68,6 +68,35 @@ def fixed(v, decimals: int = FIXED_DECIMALS) -> str:
     return s[1:] if s.startswith("-") and float(s) == 0 else s
 
 
+#: The most decimals a value is shown with beside its limit (:func:`decimals_apart`).
+MOST_DECIMALS = 4
+
+
+def decimals_apart(a, b) -> int:
+    """Decimals (from one up to :data:`MOST_DECIMALS`) at which ``a`` and its limit ``b``, shown side by side,
+    do not look equal unless they are: 549.96 beside a 550 critical is shown 549.96, not 550.0."""
+    for d in range(FIXED_DECIMALS, MOST_DECIMALS + 1):
+        if a == b or fixed(a, d) != fixed(b, d):
+            return d
+    return MOST_DECIMALS
+
+
+def fixed_apart(a, b) -> tuple:
+    """``a`` and its limit ``b`` as texts with the decimals of :func:`decimals_apart` (numbers only)."""
+    d = decimals_apart(a, b)
+    return fixed(a, d), fixed(b, d)
+
+
+def outward(v, up: bool, decimals: int) -> str:
+    """``v`` as text with ``decimals`` decimal places, rounded up (``up``) or down: the ends of an interval
+    shown without moving them inwards (a shown upper end is never below the computed one). "-" for None."""
+    if v is None:
+        return DASH
+    scale = 10.0 ** decimals
+    r = (math.ceil if up else math.floor)(round(float(v) * scale, 6)) / scale
+    return f"{r:.{decimals}f}"
+
+
 def ceiling(v, decimals: int = FIXED_DECIMALS) -> str:
     """``v`` rounded up to ``decimals`` decimals: a required thickness is never shown below its value."""
     scale = 10 ** decimals
@@ -280,6 +309,26 @@ def std_time_text(doc, v) -> str:
     return fixed(v)
 
 
+def std_time_apart(doc, m) -> str:
+    """Member ``m``'s standard-fire time to critical as displayed beside its required period: with the
+    decimals that keep the two apart (14.96 beside 15 is shown 14.96, not 15.0)."""
+    v, req = m.get("standard_fire_time_to_critical_min"), m.get("required_minutes")
+    if is_number(v) and is_number(req):
+        return fixed(v, decimals_apart(v, req))
+    return std_time_text(doc, v)
+
+
+def proposed_word(m, proposed_ok) -> str | None:
+    """The word for a sizing proposal of member entry ``m``: "meets", or where it does not, the member's own
+    verdict word as the verdict tables show it (FAIL, SHORT or marginal); None: nothing proposed."""
+    if proposed_ok is None:
+        return None
+    if proposed_ok:
+        return "meets"
+    dv, pv = design_fire_verdict(m), period_verdict(m)
+    return "FAIL" if dv == "FAIL" else "SHORT" if pv == "SHORT" else "marginal" if "marginal" in (dv, pv) else "SHORT"
+
+
 def route_conflicts(doc, m) -> list:
     """Routes that would accept member ``m`` where the direct check does not (each a dict: route,
     label, time_min, flagged (the document lists it as unconservative), text).
@@ -437,11 +486,11 @@ def shortfalls(doc) -> list:
     for m in doc.get("members") or []:
         why = []
         if m.get("passes") is False:
-            why.append(f"peak steel {fixed(m['peak_steel_temperature_C'])} C exceeds the critical "
-                       f"{fixed(m['critical_temperature_C'])} C in the design fire")
+            peak, crit = fixed_apart(m["peak_steel_temperature_C"], m["critical_temperature_C"])
+            why.append(f"peak steel {peak} C exceeds the critical {crit} C in the design fire")
         if m.get("meets_required_period") is False:
-            why.append(f"reaches critical after {std_time_text(doc, m.get('standard_fire_time_to_critical_min'))} "
-                       f"min of standard fire, short of the required {fmt(m.get('required_minutes'), 'input')} min")
+            why.append(f"reaches critical after {std_time_apart(doc, m)} min of standard fire, short of the "
+                       f"required {fmt(m.get('required_minutes'), 'input')} min")
         if m.get("marginal"):
             why.append("verdict within the numerical error (margin below the error estimated at half the time "
                        "step): not established; run with a smaller time step")

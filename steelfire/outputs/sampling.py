@@ -270,38 +270,3 @@ def write(run, out_dir, with_figures: bool = True, inputs=()) -> list:
     if out.is_dir():
         files.remove_stale_parts(out, names)
     return files._commit(out, data)
-
-
-def report_section_html(doc_section: dict, figure_svgs: dict | None = None) -> str:
-    """An HTML fragment for the report: the run's basis and one row per member (escaped text)."""
-    s = doc_section
-    e = html.escape
-    q = s["target_fractile"]
-    lines = [f'<section class="variability"><h2>Sampled fire severity</h2>',
-             f"<p>{s['fires']} fires ({e(s['method'])}, seed {s['seed']}); probabilities given {e(s['given'])}; "
-             f"{s['confidence']:.0%} intervals: {e(s['interval'])}. {s['out_of_scope_fires']} fires outside "
-             f"EN 1991-1-2 Annex A's range, included as published. Fire load: {e(s['fire_load']['basis'])}.</p>",
-             "<table><thead><tr><th>member</th><th>P(peak &gt; critical)</th><th>95 % interval</th>"
-             f"<th>peak at {q:g} [C]</th><th>critical [C]</th>"
-             + "".join(f"<th>{e(ROUTE_LABELS[r])} at {q:g} [min]</th>" for r in ROUTE_LABELS)
-             + "<th>required [min]</th></tr></thead><tbody>"]
-
-    def f(v, spec):
-        return "-" if v is None else format(v, spec)
-
-    for m in s["members"]:
-        lo, hi = m["exceedance_interval"]
-        t = m["equivalent_time_at_fractile_min"]
-        per = m["period_covering_fractile"]
-        lines.append(
-            f"<tr><td>{e(m['name'])}</td><td>{f(m['exceedance_probability'], '.4g')}</td>"
-            f"<td>{f(lo, '.3g')} - {f(hi, '.3g')}</td><td>{f(m['peak_steel_fractiles_C'].get(f'{q:g}'), '.1f')}</td>"
-            f"<td>{f(m['critical_temperature_C'], '.1f')}</td>"
-            + "".join(f"<td>{f(t[r], '.1f')} ({e(per[r] or '-')})</td>" for r in ROUTE_LABELS)
-            + f"<td>{f(m['required_minutes'], 'g')}</td></tr>")
-    lines.append("</tbody></table>")
-    for name, svg in (figure_svgs or {}).items():
-        lines.append(f'<figure class="{e(name)}">{svg}</figure>')
-    lines += [f"<p class=\"warning\">{e(w)}</p>" for w in s["warnings"]]
-    lines.append("</section>")
-    return "\n".join(lines)

@@ -150,12 +150,18 @@ def _member_table(doc, width) -> list:
             Col(("margin", "[C]"), right=True), Col(("design", "fire"))]
     rows = []
     for m in doc["members"]:
+        crit, peak, margin = m.get("critical_temperature_C"), m.get("peak_steel_temperature_C"), m.get("margin_C")
+        crit_t = P.fmt(crit, "temperature", "-")
+        peak_t = P.fmt(peak, "temperature", "-")
+        margin_t = "-" if margin is None else f"{margin:+.1f}"
+        if P.is_number(crit) and P.is_number(peak):   # never shown equal (or the margin 0.0) beside a verdict
+            d = P.decimals_apart(peak, crit)
+            peak_t, crit_t = P.fixed(peak, d), P.fixed(crit, d)
+            if P.is_number(margin):
+                margin_t = f"{margin:+.{max(d, P.decimals_apart(margin, 0.0))}f}"
         rows.append([m["name"], m.get("kind") or "", m.get("protection") or "bare",
-                     P.fmt(m.get("thickness_mm"), "input", none="-"),
-                     P.fmt(m.get("critical_temperature_C"), "temperature", "-"),
-                     P.fmt(m.get("peak_steel_temperature_C"), "temperature", "-"),
-                     P.fmt(m.get("time_of_peak_steel_min"), "time", "-"),
-                     "-" if m.get("margin_C") is None else f"{m['margin_C']:+.1f}",
+                     P.fmt(m.get("thickness_mm"), "input", none="-"), crit_t, peak_t,
+                     P.fmt(m.get("time_of_peak_steel_min"), "time", "-"), margin_t,
                      P.design_fire_verdict(m) or "-"])
     return _table(cols, rows, width)
 
@@ -176,8 +182,7 @@ def _equivalence_table(doc, width):
     for m in ms:
         e = m.get("equivalence") or {}
         marks = {c["route"]: c for c in P.route_conflicts(doc, m)}
-        row = [m["name"], P.fmt(m.get("required_minutes"), "input", "-"),
-               P.std_time_text(doc, m.get("standard_fire_time_to_critical_min"))]
+        row = [m["name"], P.fmt(m.get("required_minutes"), "input", "-"), P.std_time_apart(doc, m)]
         for r in routes:
             v = e.get(P.ROUTE_KEYS[r])
             text = "n/a" if v is None else P.fixed(v)
@@ -206,13 +211,15 @@ def _sizing_table(doc, width) -> list:
             Col(("specified", "design")), Col(("proposed", "design"))]
     rows, notes = [], []
     word = {True: "meets", False: "SHORT", None: "-"}
+    members = {m["name"]: m for m in doc["members"]}
     for r in rows_:
         bare = r.protection is None
         rows.append([r.name, "bare" if bare else P.fmt(r.given_mm, "input", "-"),
                      "-" if bare else P.fmt(r.standard_period_mm, "required_thickness", "-"),
-                     "-" if bare else P.fmt(r.burnout_mm, "required_thickness", "n/a"),
+                     "-" if bare else P.fmt(r.burnout_mm, "required_thickness", "none meets"),
                      "-" if bare else P.fmt(r.chosen_mm, "input", "none"),
-                     "-" if bare else P.change_text(r), word[r.specified_ok], word[r.proposed_ok]])
+                     "-" if bare else P.change_text(r), word[r.specified_ok],
+                     P.proposed_word(members[r.name], r.proposed_ok) or "-"])
         if r.note:
             notes.append(f"{r.name}: {r.note}")
     lines = _table(cols, rows, width)

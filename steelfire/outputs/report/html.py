@@ -96,16 +96,8 @@ def _span(c):
 
 
 #: Most decimals a temperature or time is shown with where one decimal would hide its order against its limit.
-MOST_DECIMALS = 4
-
-
-def decimals_apart(a, b) -> int:
-    """Decimals (from one up to ``MOST_DECIMALS``) at which ``a`` and its limit ``b``, shown side by side, do not
-    look equal unless they are: 549.96 beside a 550 critical is shown 549.96, not 550.0."""
-    for d in range(P.FIXED_DECIMALS, MOST_DECIMALS + 1):
-        if a == b or P.fixed(a, d) != P.fixed(b, d):
-            return d
-    return MOST_DECIMALS
+MOST_DECIMALS = P.MOST_DECIMALS
+decimals_apart = P.decimals_apart
 
 
 def _refine(c, v, d):
@@ -716,10 +708,7 @@ def _sizing(doc):
         spec_w, spec_c = word[r.specified_ok]
         prop_w, prop_c = word[r.proposed_ok]
         if r.proposed_ok is False:   # the member's own verdict word, as the verdict table shows it
-            m = doc["members"][idx[r.name]]
-            dv, pv = P.design_fire_verdict(m), P.period_verdict(m)
-            prop_w = "FAIL" if dv == "FAIL" else "SHORT" if pv == "SHORT" else \
-                "marginal" if "marginal" in (dv, pv) else prop_w
+            prop_w = P.proposed_word(doc["members"][idx[r.name]], False)
         ch = P.change_text(r)
         rows.append([{**cell(doc, f"members.{idx[r.name]}.name"), "cls": "txt name"},
                      text_cell("bare steel") if bare else cell(doc, f"members.{idx[r.name]}.protection"),
@@ -783,13 +772,17 @@ def _variability(doc, command):
                     f"{v.get('out_of_scope_fires')} fires outside EN 1991-1-2 Annex A's range, included as published")
     for i, m in enumerate(v.get("members") or []):
         k = f"variability.members.{i}."
+        lo, hi = m.get("exceedance_interval") or (None, None)
         row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "exceedance_probability", "factor"),
-               cell(doc, k + "exceedance_interval", "factor"),
+               {**cell(doc, k + "exceedance_interval", "factor"),   # ends rounded outward, as the terminal shows them
+                "text": f"{P.outward(lo, False, 4)} - {P.outward(hi, True, 4)}"},
                cell(doc, k + "peak_steel_fractiles_C." + qk, "temperature"),
                cell(doc, k + "critical_temperature_C", "temperature")]
         for r, _ in _ROUTES:
             c = cell(doc, k + "equivalent_time_at_fractile_min." + r, "time", none="n/a")
             per = get(doc, k + "period_covering_fractile." + r)
+            if not per and (m.get("no_period_covers_fractile") or {}).get(r):
+                per = "none up to R240"
             row.append({**c, "note": per} if per else c)
         row.append(cell(doc, k + "required_minutes", "input"))
         out["rows"].append(row)
