@@ -363,6 +363,8 @@ def test_valid_eq_4_27_governs_even_where_the_conduction_model_is_hotter_and_the
     assert m.peak_steel_temperature_C < 480.0 < m.conduction_peak_C
     assert m.model_difference_C < -50.0
     assert any("conduction model differ" in w and "P1" in w for w in r.warnings)
+    # and a warning of its own says the pass depends on the model (eq (4.27) passes, the conduction model fails)
+    assert any("P1" in w and "the pass depends on the model" in w for w in r.warnings)
 
 
 def test_several_exposures_take_the_hottest_column_by_the_conduction_model():

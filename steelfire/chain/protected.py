@@ -109,6 +109,14 @@ def run_both(case, fire, exposures, cols, crit, design, peak, peak_time_s, last,
             f"EN 1993-1-2 eq (4.27) puts the steel above the hottest gas reached so far for {names_text(bad)} (its "
             "(e^(phi/10) - 1) term adds heat as the gas cools or dips): a result no steel can reach. Their verdict, "
             "time of peak, history and sizing rest on the conduction model.")
+    reversed_ = [nm for nm, gv, lp, c, cr in zip(names, governs, lumped_peak, cp, crit[prot])
+                 if not gv and lp <= cr < c]
+    if reversed_:
+        warnings.append(
+            f"For {names_text(reversed_)} the verdict rests on eq (4.27), which passes, while the conduction model's "
+            "peak exceeds the critical temperature: the pass depends on the model. Eq (4.27) is the route product "
+            "data are assessed by (EN 13381); where this protection's data were not, or phi is large (heavy "
+            "protection), run with protection_model = \"conduction\" before relying on the pass.")
     margin = crit[prot] - np.where(governs, cp, lumped_peak)
     differ = [nm for nm, d, m in zip(names, np.abs(lumped_peak - cp), np.abs(margin))
               if d > DIFFERENCE_REPORTED_C or d > m]
