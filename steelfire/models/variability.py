@@ -760,7 +760,11 @@ class Tally:
 
     ``exceedances``: fires with peak > critical (a member passes at peak <= critical);
     ``undefined``: fires without a peak (NaN); ``peak_steel``: histograms of the peaks
-    (TEMPERATURE_BINS); ``equivalent_time``: route -> histograms of the equivalent times (TIME_BINS).
+    (TEMPERATURE_BINS); ``equivalent_time``: route -> histograms of the equivalent times (TIME_BINS);
+    ``near_critical``: fires whose peak lies within the member's error band of its critical
+    temperature, |peak - critical| <= band; ``near_critical_passing``: those of them that pass
+    (critical - band <= peak <= critical), the fires the band turns into exceedances (zeros where the
+    tally was made without a band: only a peak equal to the critical temperature is then near).
     """
 
     fires: int
@@ -768,6 +772,15 @@ class Tally:
     undefined: np.ndarray
     peak_steel: Histograms
     equivalent_time: dict = field(default_factory=dict)
+    near_critical: np.ndarray | None = None
+    near_critical_passing: np.ndarray | None = None
+
+    def __post_init__(self):
+        z = np.zeros_like(np.asarray(self.exceedances, dtype=np.int64))
+        if self.near_critical is None:
+            object.__setattr__(self, "near_critical", z)
+        if self.near_critical_passing is None:
+            object.__setattr__(self, "near_critical_passing", z.copy())
 
     def merge(self, other: "Tally") -> "Tally":
         if set(other.equivalent_time) != set(self.equivalent_time):
@@ -775,12 +788,22 @@ class Tally:
                              f"the routes {sorted(self.equivalent_time)}")
         return Tally(self.fires + other.fires, self.exceedances + other.exceedances, self.undefined + other.undefined,
                      self.peak_steel.merge(other.peak_steel),
-                     {r: h.merge(other.equivalent_time[r]) for r, h in self.equivalent_time.items()})
+                     {r: h.merge(other.equivalent_time[r]) for r, h in self.equivalent_time.items()},
+                     self.near_critical + other.near_critical,
+                     self.near_critical_passing + other.near_critical_passing)
 
     def exceedance(self, confidence: float = CONFIDENCE) -> Exceedance:
         """Per member: P(peak > critical) over the fires, a fire without a peak counted as exceeding
         (it cannot be shown safe), with its Clopper-Pearson interval."""
         return exceedance_probability(self.exceedances + self.undefined, self.fires, confidence)
+
+    def exceedance_with_band(self, confidence: float = CONFIDENCE) -> Exceedance:
+        """Per member: P(peak > critical - band), the fires within the error band below the critical
+        temperature counted as exceeding (their pass is within the numerical error of the peak), a fire
+        without a peak counted as exceeding, with the Clopper-Pearson interval. Never below
+        :meth:`exceedance` (the count only grows)."""
+        return exceedance_probability(self.exceedances + self.undefined + self.near_critical_passing, self.fires,
+                                      confidence)
 
     def peak_fractile(self, q: float) -> np.ndarray:
         """Per member: the q fractile of the peak steel temperature [C], to 0.5 C (upper bin edge)."""
@@ -795,10 +818,33 @@ class Tally:
         return self.equivalent_time[route].upper_bound(q, confidence)
 
 
+def near_critical_counts(peak_steel_C, critical_temperature_C, band_C):
+    """Per member: (fires with |peak - critical| <= band, those of them with peak <= critical), for
+    ``peak_steel_C`` (F, M) [C], ``critical_temperature_C`` (M,) [C], ``band_C`` (M,) [C] >= 0. NaN
+    peaks are in neither (they count as exceeding on their own). Integer counts: they add exactly over
+    chunks of fires.
+
+    >>> near_critical_counts([[499.0], [499.8], [500.0], [500.3], [501.0]], [500.0], [0.5])
+    (array([3]), array([2]))
+    """
+    peak = np.asarray(peak_steel_C, dtype=float)
+    crit = np.asarray(critical_temperature_C, dtype=float)[None, :]
+    band = np.asarray(band_C, dtype=float)
+    if band.shape != crit.shape[1:] or not np.all(band >= 0.0):
+        raise InputError("band_C", band_C, f"one value >= 0 [C] per member ({crit.shape[1]},)")
+    band = band[None, :]
+    with np.errstate(invalid="ignore"):
+        low = peak >= crit - band       # False for NaN
+        near = low & (peak <= crit + band)
+        passing = low & (peak <= crit)
+    return (np.count_nonzero(near, axis=0).astype(np.int64), np.count_nonzero(passing, axis=0).astype(np.int64))
+
+
 def tally(peak_steel_C, critical_temperature_C, equivalent_time_min: Mapping | None = None,
-          temperature_bins: Bins = TEMPERATURE_BINS, time_bins: Bins = TIME_BINS) -> Tally:
+          temperature_bins: Bins = TEMPERATURE_BINS, time_bins: Bins = TIME_BINS, band_C=None) -> Tally:
     """The counts of one chunk of fires: ``peak_steel_C`` (F, M) [C], ``critical_temperature_C`` (M,)
-    [C], ``equivalent_time_min`` route -> (F, M) [min] (NaN where a route gives no time)."""
+    [C], ``equivalent_time_min`` route -> (F, M) [min] (NaN where a route gives no time), ``band_C``
+    (M,) [C] the error band of the peaks (:func:`near_critical_counts`; None: no band, 0)."""
     peak = np.asarray(peak_steel_C, dtype=float)
     if peak.ndim != 2:
         raise InputError("peak_steel_C", "shape " + str(peak.shape), "a (fires, members) array")
@@ -808,6 +854,7 @@ def tally(peak_steel_C, critical_temperature_C, equivalent_time_min: Mapping | N
     nan = np.isnan(peak)
     with np.errstate(invalid="ignore"):
         exceed = np.count_nonzero((peak > crit[None, :]) & ~nan, axis=0).astype(np.int64)
+    near, passing = near_critical_counts(peak, crit, np.zeros(len(crit)) if band_C is None else band_C)
     times = {}
     for route, t in (equivalent_time_min or {}).items():
         t = np.asarray(t, dtype=float)
@@ -815,7 +862,7 @@ def tally(peak_steel_C, critical_temperature_C, equivalent_time_min: Mapping | N
             raise InputError(f"equivalent_time_min[{route}]", "shape " + str(t.shape), f"shape {peak.shape}")
         times[route] = histograms(t, time_bins)
     return Tally(int(peak.shape[0]), exceed, np.count_nonzero(nan, axis=0).astype(np.int64),
-                 histograms(peak, temperature_bins), times)
+                 histograms(peak, temperature_bins), times, near, passing)
 
 
 def period_covering(time_min) -> str | None:
