@@ -332,3 +332,36 @@ def test_sample_terminal_summary_shows_the_warnings_and_uncovered_fractiles(caps
     assert "equal_temperature: none up to R240" in text and "cib_w14: -" in text
     assert "[0.0123, 0.0334]" in text          # outward: 0.0123456 down, 0.0333331 up (hand calculation)
     assert text.splitlines()[-1] == "warning: The 0.99 fractile of 50 fires is the largest sampled value."
+
+
+def test_sample_record_shows_the_error_band_and_the_probability_with_it(sample_out):
+    # the sampled peaks' numerical error per member, the fires within it of the critical temperature and the
+    # probability with them counted as exceeding, each keyed to the document; interval ends rounded outward
+    doc = json.loads((sample_out / "results.json").read_text("utf-8"))
+    page = parse((sample_out / "report.html").read_text("utf-8"))
+    for i, m in enumerate(doc["variability"]["members"]):
+        k = f"variability.members.{i}."
+        assert float(page.keyed[k + "error_band_C"]["text"]) == pytest.approx(m["error_band_C"], abs=0.05)
+        assert int(page.keyed[k + "near_critical_fires"]["text"]) == m["near_critical_fires"]
+        lo, hi = m["exceedance_interval_with_band"]
+        a, b = (float(x) for x in page.keyed[k + "exceedance_interval_with_band"]["text"].split(" - "))
+        assert a <= lo and b >= hi
+        assert page.keyed[k + "exceeds_target_probability"]["text"] == ("ABOVE" if m["exceeds_target_probability"]
+                                                                        else "below")
+
+
+def test_sample_terminal_names_its_tables_and_the_sampled_sizing(tmp_path, capsys):
+    # `sample --size`: the heading names the command and says the deterministic tables hold the proposed
+    # thicknesses; the least thickness for target_probability (or why none) is printed per member, not only in
+    # the JSON (newcomer's read of README "sample"); every line within the 100 columns the README promises
+    from steelfire.cli import main
+
+    code = main(["sample", str(CASES / "office_variability.toml"), "--fires", "60", "--size"])
+    out = capsys.readouterr().out
+    assert code in (0, 1)
+    assert out.startswith("steelfire sample: ")
+    assert "deterministic sizing of the case" in out and "Members at the chosen (proposed) thicknesses" in out
+    block = out[out.index("Least supplied thickness for target_probability"):]
+    for name in ("B3-01", "B3-02", "C3-A1", "B3-07 edge"):
+        assert any(line.strip().startswith(name) for line in block.splitlines()), name
+    assert max(len(line) for line in out.splitlines()) <= 100

@@ -314,3 +314,39 @@ def test_near_critical_counts_by_hand():
     assert (near.tolist(), passing.tolist()) == ([3], [2])
     with pytest.raises(InputError):
         V.near_critical_counts([[500.0]], [500.0], [-0.1])
+
+
+def _passing_case_text(target: float, fires: int) -> str:
+    """office_variability without the two members its deterministic check fails (B3-07 edge, T3-01 tie), so
+    that the exit code of `sample` turns on the target probability alone; ``fires`` and ``target``."""
+    text = CASE.read_text(encoding="utf-8")
+    head, *members = text.split("[[member]]")
+    keep = [m for m in members if 'name = "B3-07 edge"' not in m and 'name = "T3-01 tie"' not in m]
+    head = head.replace("fires = 10000", f"fires = {fires}")
+    head = "\n".join(f"target_probability = {target!r}" if line.startswith("target_probability") else line
+                     for line in head.splitlines()) + "\n"
+    return head + "".join("[[member]]" + m for m in keep)
+
+
+def test_exit_code_judges_the_target_with_the_band(tmp_path):
+    """`steelfire sample` exits 1 where a member's upper end WITH the band is above target_probability though
+    its plain upper end is below (the same fires, the same seed), and 0 with a target above both: the exit
+    code judges as --size does, on the safe side (test above for the section's own verdicts)."""
+    from steelfire.cli import main
+
+    n = 400   # seed 1: B3-01 has fires within its band below its critical temperature at this count
+    probe = tmp_path / "probe.toml"
+    probe.write_text(_passing_case_text(0.99, n), encoding="utf-8")
+    case, var = load(probe)
+    sec = S.run(case, variability=var, progress=False).to_dict()
+    m = next(m for m in sec["members"] if m["near_critical_fires_below_critical"] > 0)
+    plain_hi, band_hi = m["exceedance_interval"][1], m["exceedance_interval_with_band"][1]
+    assert plain_hi < band_hi
+    others_hi = max(x["exceedance_interval_with_band"][1] for x in sec["members"])
+    between = tmp_path / "between.toml"
+    between.write_text(_passing_case_text(0.5 * (plain_hi + band_hi), n), encoding="utf-8")
+    above = tmp_path / "above.toml"
+    above.write_text(_passing_case_text(min(0.999, others_hi * 1.01), n), encoding="utf-8")
+    assert main(["check", str(above), "--json"]) == 0          # the deterministic check passes
+    assert main(["sample", str(between), "--json"]) == 1
+    assert main(["sample", str(above), "--json"]) == 0

@@ -449,13 +449,29 @@ def size(case, histories: bool = True):
                          note=f"not achievable: the check at {d:g} mm {why} and {more}")
                 members[i] = dataclasses.replace(members[i], thickness_mm=fallback_mm(i, case.members[i]))
         result = analyse(dataclasses.replace(case, members=tuple(members)), histories=histories)
-    specified = None
+    specified = spec_run = None
     if all(m.thickness_mm is not None for m in case.members if m.protected):
-        specified = analyse(case, histories=False).table.ok()   # the design as specified, for comparison
+        spec_run = analyse(case, histories=False)   # the design as specified, for comparison
+        specified = spec_run.table.ok()
     for j, (r, s, m) in enumerate(zip(result.members, sized, case.members)):
         s["specified_mm"] = m.thickness_mm
         s["specified_ok"] = None if specified is None else bool(specified[j])
+        # why the specified design does or does not pass: the check's verdicts at the specified thicknesses
+        sm = None if spec_run is None else spec_run.members[j]
+        s["specified_passes"] = None if sm is None or sm.passes is None else bool(sm.passes)
+        s["specified_meets_required_period"] = (None if sm is None or sm.meets_required_period is None
+                                                else bool(sm.meets_required_period))
+        marg = None if spec_run is None else spec_run.table.extras.get("marginal")
+        s["specified_marginal"] = None if sm is None else bool(marg is not None and marg[j])
         s.pop("iterations", None)
+        d = s["chosen_mm"]
+        if s["achievable"] and d is not None and d > 0.0:
+            # the bisection brackets each least thickness to its tolerance from above; a chosen thickness the
+            # check verifies for a criterion bounds that criterion's least thickness
+            if s["standard_period_mm"] is not None and r.meets_required_period and s["standard_period_mm"] > d:
+                s["standard_period_mm"] = d
+            if s["burnout_mm"] is not None and r.passes and s["burnout_mm"] > d:
+                s["burnout_mm"] = d
         if s["achievable"] is None:  # bare member
             ok = r.ok
             within = bool(r.passes and r.meets_required_period is not False)   # not ok: marginal

@@ -105,7 +105,9 @@ def _sizing_entry(s):
             "governing": s["governing"], "chosen_mm": rounded(s["chosen_mm"]), "achievable": bool(s["achievable"]),
             "note": s["note"], "supplied_range_mm": s["supplied_range_mm"],
             "specified_mm": rounded(s.get("specified_mm")), "specified_ok": s.get("specified_ok"),
-            "change": s.get("change")}
+            "specified_passes": s.get("specified_passes"),
+            "specified_meets_required_period": s.get("specified_meets_required_period"),
+            "specified_marginal": s.get("specified_marginal"), "change": s.get("change")}
 
 
 def member_entries(table) -> list:

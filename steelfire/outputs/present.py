@@ -318,6 +318,24 @@ def std_time_apart(doc, m) -> str:
     return std_time_text(doc, v)
 
 
+def specified_word(m, specified_ok) -> str | None:
+    """The word for the specified design of member entry ``m`` in a sizing run: "meets", or where it does not,
+    the verdict the check gives at the specified thicknesses (FAIL, SHORT or marginal; ``sizing.specified_*``);
+    None: no thickness specified."""
+    if specified_ok is None:
+        return None
+    if specified_ok:
+        return "meets"
+    s = m.get("sizing") or {}
+    if s.get("specified_passes") is False:
+        return "FAIL"
+    if s.get("specified_meets_required_period") is False:
+        return "SHORT"
+    if s.get("specified_marginal"):
+        return "marginal"
+    return "SHORT"   # a document without the specified design's verdicts
+
+
 def proposed_word(m, proposed_ok) -> str | None:
     """The word for a sizing proposal of member entry ``m``: "meets", or where it does not, the member's own
     verdict word as the verdict tables show it (FAIL, SHORT or marginal); None: nothing proposed."""

@@ -110,6 +110,8 @@ def members_csv(doc_section: dict) -> str:
     head = []
     for r in rows:
         head += [k for k in r if k not in head]
+    # a group that is null for some members (a bare member's sizing) and a table for others: its columns only
+    head = [k for k in head if not any(h.startswith(k + ".") for h in head)]
     out = io.StringIO()
     w = csv.writer(out, lineterminator="\n")
     w.writerow(head)

@@ -210,7 +210,6 @@ def _sizing_table(doc, width) -> list:
             Col(("chosen", "[mm]"), right=True), Col(("change", "[mm]"), right=True),
             Col(("specified", "design")), Col(("proposed", "design"))]
     rows, notes = [], []
-    word = {True: "meets", False: "SHORT", None: "-"}
     members = {m["name"]: m for m in doc["members"]}
     for r in rows_:
         bare = r.protection is None
@@ -218,7 +217,7 @@ def _sizing_table(doc, width) -> list:
                      "-" if bare else P.fmt(r.standard_period_mm, "required_thickness", "-"),
                      "-" if bare else P.fmt(r.burnout_mm, "required_thickness", "none meets"),
                      "-" if bare else P.fmt(r.chosen_mm, "input", "none"),
-                     "-" if bare else P.change_text(r), word[r.specified_ok],
+                     "-" if bare else P.change_text(r), P.specified_word(members[r.name], r.specified_ok) or "-",
                      P.proposed_word(members[r.name], r.proposed_ok) or "-"])
         if r.note:
             notes.append(f"{r.name}: {r.note}")
@@ -237,7 +236,7 @@ def _warning_lines(doc, width, wide) -> list:
     return ["Warnings:"] + lines if lines else []
 
 
-def render(doc, *, sizing: bool = False, wide: bool = False, out_dir=None) -> str:
+def render(doc, *, sizing: bool = False, wide: bool = False, out_dir=None, command: str | None = None) -> str:
     """The terminal summary of a run.
 
     Parameters
@@ -252,6 +251,8 @@ def render(doc, *, sizing: bool = False, wide: bool = False, out_dir=None) -> st
         Do not fit the lines to :data:`WIDTH` columns (names uncut, every warning name listed).
     out_dir : str or Path, optional
         The output directory written; adds the line ``Wrote DIR: results.json, report.html, ...``.
+    command : str, optional
+        The command the heading names (default: size or check); ``"sample"`` says what the tables hold.
 
     Returns
     -------
@@ -259,8 +260,12 @@ def render(doc, *, sizing: bool = False, wide: bool = False, out_dir=None) -> st
         The summary, lines of at most :data:`WIDTH` characters unless ``wide``.
     """
     width = None if wide else WIDTH
-    cmd = "size" if sizing else "check"
+    cmd = command or ("size" if sizing else "check")
     out = _wrap(f"steelfire {cmd}: {doc.get('title', '')}", width, indent="  ") + [""]
+    if cmd == "sample":
+        out += _wrap("The deterministic " + ("sizing of the case (its proposed thicknesses below)" if sizing else
+                                             "check of the case") + "; the statistics over the sampled fires follow.",
+                     width, indent="  ") + [""]
     if doc.get("out_of_scope"):
         out += _wrap("*** COMPUTED OUTSIDE THE SCOPE OF THE METHOD (analysis.allow_out_of_scope = true): " +
                      "; ".join(doc["out_of_scope"]), width, indent="    ") + [""]

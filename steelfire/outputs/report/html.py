@@ -706,6 +706,8 @@ def _sizing(doc):
         k = f"members.{idx[r.name]}.sizing."
         bare = r.protection is None
         spec_w, spec_c = word[r.specified_ok]
+        if r.specified_ok is False:   # the check's verdict word at the specified thicknesses
+            spec_w = P.specified_word(doc["members"][idx[r.name]], False)
         prop_w, prop_c = word[r.proposed_ok]
         if r.proposed_ok is False:   # the member's own verdict word, as the verdict table shows it
             prop_w = P.proposed_word(doc["members"][idx[r.name]], False)
@@ -723,7 +725,10 @@ def _sizing(doc):
                                "txt" + (" warn" if r.change == "increase" or r.change == "not achievable" else "")),
                      {"text": spec_w, "key": None, "cls": spec_c}, {"text": prop_w, "key": None, "cls": prop_c}])
         if r.note or r.specified_reason:
-            notes.append({"name": r.name, "text": "; ".join(x for x in (r.specified_reason, r.note) if x)})
+            parts = [x for x in (r.specified_reason, r.note) if x]
+            if len(parts) == 2 and parts[1].startswith(parts[0]):   # the note already says it (bare steel fails; ...)
+                parts = parts[1:]
+            notes.append({"name": r.name, "text": "; ".join(parts)})
     lines = P.verdict_lines(doc, True)
     return {"rows": rows, "notes": notes, "verdicts": lines}
 
@@ -776,7 +781,8 @@ def _variability(doc, command):
         row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "exceedance_probability", "factor"),
                {**cell(doc, k + "exceedance_interval", "factor"),   # ends rounded outward, as the terminal shows them
                 "text": f"{P.outward(lo, False, 4)} - {P.outward(hi, True, 4)}"},
-               cell(doc, k + "peak_steel_fractiles_C." + qk, "temperature"),
+               {**cell(doc, k + "peak_steel_fractiles_C", "temperature"),   # keyed by the fractile ("0.9": no path)
+                "text": P.fmt((m.get("peak_steel_fractiles_C") or {}).get(qk), "temperature", DASH)},
                cell(doc, k + "critical_temperature_C", "temperature")]
         for r, _ in _ROUTES:
             c = cell(doc, k + "equivalent_time_at_fractile_min." + r, "time", none="n/a")
@@ -786,6 +792,24 @@ def _variability(doc, command):
             row.append({**c, "note": per} if per else c)
         row.append(cell(doc, k + "required_minutes", "input"))
         out["rows"].append(row)
+    target = v.get("target_probability")
+    out["target"] = None if target is None else P.fmt(target)
+    eb = v.get("error_band") or {}
+    out["band_rule"] = eb.get("rule")
+    out["band_rows"] = []
+    for i, m in enumerate(v.get("members") or []):
+        k = f"variability.members.{i}."
+        lo, hi = m.get("exceedance_interval_with_band") or (None, None)
+        row = [{**cell(doc, k + "name"), "cls": "txt name"}, cell(doc, k + "error_band_C", "temperature"),
+               cell(doc, k + "near_critical_fires", "input"),
+               cell(doc, k + "exceedance_probability_with_band", "factor"),
+               {**cell(doc, k + "exceedance_interval_with_band", "factor"),
+                "text": f"{P.outward(lo, False, 4)} - {P.outward(hi, True, 4)}"}]
+        if target is not None:
+            ex = m.get("exceeds_target_probability")
+            row.append({**cell(doc, k + "exceeds_target_probability"), "text": "ABOVE" if ex else "below",
+                        "cls": "flag bad" if ex else "flag ok"})
+        out["band_rows"].append(row)
     out["warnings"] = [str(w) for w in v.get("warnings") or []]
     return out
 
