@@ -559,7 +559,9 @@ def main(argv):  # pragma: no cover - the larger run, printing the counts
 
     t0 = time.perf_counter()
     runs = all_runs()
-    print(f"cases: {len(runs)} (seeds {SEED}..{SEED + len(runs) - 1}), members run: "
+    variants = sum("near-critical variant" in r.made.notes for r in runs)
+    print(f"cases: {len(runs) - variants} (seeds {SEED}..{SEED + N_CASES - 1}) and {variants} near-critical variants, "
+          f"members run: "
           f"{sum(len(r.doc['members']) for r in runs if r.doc)}; {time.perf_counter() - t0:.0f} s")
     failed = 0
     for name in CHECKS:
