@@ -55,7 +55,7 @@ import case_maker  # noqa: E402
 import fuzzing  # noqa: E402  (run_cli: steelfire.cli.main in-process with a time limit)
 
 SEED = int(os.environ.get("STEELFIRE_INVARIANT_SEED", "7100"))
-N_CASES = int(os.environ.get("STEELFIRE_INVARIANT_CASES", "36"))
+N_CASES = int(os.environ.get("STEELFIRE_INVARIANT_CASES", "20"))
 N_SIZE = int(os.environ.get("STEELFIRE_INVARIANT_SIZE_CASES", "6"))
 #: Members per sized case scanned by brute force below the proposed thickness.
 SCAN_MEMBERS = int(os.environ.get("STEELFIRE_INVARIANT_SCAN_MEMBERS", "2"))
@@ -536,9 +536,9 @@ required_minutes = 30
 """
 
 
-@pytest.mark.xfail(strict=True, reason="defect: a member resistance computed out of scope (lambda_y,20C > 1.1 with "
-                   "bending) is noted only in the member's resistance notes, not in out_of_scope or the terminal banner")
 def test_resistance_out_of_scope_is_stamped(tmp_path):
+    # a member resistance computed out of scope (lambda_y,20C > 1.1 with bending, EN 1993-1-2 4.2.3.5) was noted
+    # only in the member's resistance notes, not in out_of_scope or the terminal banner
     p = tmp_path / "case.toml"
     p.write_text(RESISTANCE_OOS_CASE.replace("true", "false"), encoding="utf-8")
     code, _, err = fuzzing.run_cli(["check", str(p), "--json"], tmp_path)
@@ -546,7 +546,10 @@ def test_resistance_out_of_scope_is_stamped(tmp_path):
     p.write_text(RESISTANCE_OOS_CASE, encoding="utf-8")
     code, out, _ = fuzzing.run_cli(["check", str(p), "--json"], tmp_path)
     assert code in (0, 1)
-    assert json.loads(out)["out_of_scope"], "computed out of scope, yet out_of_scope is empty"
+    oos = json.loads(out)["out_of_scope"]
+    assert oos and "C1" in oos[0] and "lambda_y" in oos[0], oos
+    code, out, _ = fuzzing.run_cli(["check", str(p)], tmp_path)
+    assert "COMPUTED OUTSIDE THE SCOPE" in out
 
 
 def main(argv):  # pragma: no cover - the larger run, printing the counts

@@ -128,6 +128,9 @@ def analyse(case, histories: bool = True) -> AnalysisResult:
         rising = [members[i].name for i in prot[thick.peak_C > lumped_peak[prot] + 0.01]]
     warnings += verdicts.member_warnings(case, fire, cols, peak, last, rising)
     oos = list(fire.out_of_scope)
+    # a resistance computed outside its method's range (allow_out_of_scope): stamped as the fire's findings are
+    oos += [f"OUT OF SCOPE: {m.name}: resistance {note[len('out of scope: '):]}" for m, entry in zip(members, resistance)
+            if entry for note in entry.get("notes") or [] if note.startswith("out of scope: ")]
     if fire.cools:   # a pass whose steel still heats at the end of the run is not established: its peak comes later
         open_ = [m.name for m, d, p_, c in zip(members, last, peak, crit) if d > verdicts.STILL_HEATING_C and p_ <= c]
         if open_:
