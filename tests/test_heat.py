@@ -682,3 +682,26 @@ def test_excess_over_the_gas_is_the_same_with_and_without_histories():
     for keep in (False, True):
         out = runs.run(t, g, [m], keep_history=keep)
         assert out.excess_C[0] == pytest.approx(expected, rel=1e-9)
+
+
+def test_excess_from_the_peak_equals_the_tracked_excess_for_single_peaked_fires():
+    """Where every fire rises to its peak and then only falls (nominal and Annex A fires), heat.run takes the
+    excess over the hottest gas so far from the steel's peak (heat.excess_from_peak) instead of tracking it
+    step by step. Reference: the history the same run keeps, max over the steps of (steel - max(hottest gas so
+    far, 20 C)), 0 where never above. The fire holds 600 C for an hour and drops to 20 C in 5 s: eq (4.27)'s
+    cooling-phase term lifts heavy protection's steel above the 600 C (hand reasoning: (e^(phi/10) - 1) x 580 C
+    in one step), light protection's stays below."""
+    t = np.arange(0.0, 7200.0 + 1.0, 5.0)
+    g = np.interp(t, [0.0, 300.0, 3600.0, 3605.0, 7200.0], [20.0, 600.0, 600.0, 20.0, 20.0])
+    assert heat.single_peaked(g[:, None]).all()
+    ms = [runs.member(bare=False, section_factor_per_m=300.0, thickness_m=d, density=1200.0, specific_heat=2200.0,
+                      conductivity=0.2) for d in (0.01, 0.02, 0.03, 0.04)]
+    ms.append(runs.member(bare=True, section_factor_per_m=150.0))
+    out = runs.run(t, g, ms, keep_history=True)
+    ref = np.maximum.accumulate(np.maximum(g, 20.0))
+    expected = np.maximum(np.max(out.history_C - ref[:, None], axis=0), 0.0)
+    assert np.max(expected) > 50.0 and np.min(expected) == 0.0
+    assert out.excess_C == pytest.approx(expected, abs=1e-9)
+    # the same fire with a second, hotter rise is not single-peaked: the kernels track it (test above)
+    g2 = np.where(t > 5400.0, np.minimum(20.0 + (t - 5400.0), 1000.0), g)
+    assert not heat.single_peaked(g2[:, None]).any()

@@ -101,8 +101,8 @@ class ThermalRun(NamedTuple):
     """What a call returns, per row: the peak steel temperature [C] and its first time [s]; the first
     time the steel reaches the row's threshold, linear within the step [s] (NaN: never); the steel
     temperature at the queried grid indices (N x Q); the last step's increment [C]; the excess of the
-    steel over the hottest gas reached so far [C] (the largest at any step of the run; above 0 the result
-    breaks the second law, see eq (4.27)'s cooling-phase term); the history
+    steel over the hottest gas reached so far or 20 C [C] (the largest at any step of the run, 0 where never
+    above; above 0 the result breaks the second law, see eq (4.27)'s cooling-phase term); the history
     (T x N) when kept, else 0 x 0."""
 
     peak_C: np.ndarray
@@ -276,8 +276,8 @@ def _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cro
 
 @nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p, c_p, lam_T, lam_v, lam_n, delay_s,
-                      rho_a, threshold_C, query_idx, keep_history, ca_k, ex_k, tickets, peak, peak_t, cross, at_q,
-                      last, hist, excess):
+                      rho_a, threshold_C, query_idx, keep_history, ca_k, ex_k, track_excess, tickets, peak, peak_t,
+                      cross, at_q, last, hist, excess):
     """Eq (4.27) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
     n_k = lam_T.shape[1]
@@ -312,8 +312,8 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                 _knots(lam_T, lam_v, lam_n[m], m, j, tk, vk, sk)
                 lamj[j] = lam_v[m, 0]
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
-            gm = gas[0]                 # hottest gas so far
-            exc = np.full(w, 20.0 - gm)  # most the steel has been above it
+            gm = max(gas[0], 20.0)      # hottest gas so far (or the steel's start, 20 C)
+            exc = np.zeros(w)           # most the steel has been above it (track_excess)
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
                 g0 = gas[i]       # read once a step: a store into the chunk's arrays could not change it
@@ -355,8 +355,10 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
                     new = (x if at else MOISTURE_PLATEAU_C) if hold else new
                     dl[j] = new - x
                     th[j] = new
-                    exc[j] = max(exc[j], new - gm)
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
+                if track_excess:
+                    for j in range(w):
+                        exc[j] = max(exc[j], th[j] - gm)
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
             for j in range(w):
@@ -366,7 +368,7 @@ def _protected_chunks(time_s, gas_FT, chunk_start, chunk_fire, ap_v, d_p, rho_p,
 
 @nb.njit(cache=True, nogil=True, error_model="numpy", fastmath=BATCH_MATH)
 def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alpha_c, eps_res, rho_a, threshold_C,
-                 query_idx, keep_history, ca_k, tickets, peak, peak_t, cross, at_q, last, hist, excess):
+                 query_idx, keep_history, ca_k, track_excess, tickets, peak, peak_t, cross, at_q, last, hist, excess):
     """Eq (4.25) for the chunks this thread takes from ``tickets`` (:func:`_on_threads`), into the outputs."""
     n_t = time_s.shape[0]
     er = eps_res * STEFAN_BOLTZMANN
@@ -387,8 +389,8 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
                 ac[j] = alpha_c[lo + j]
                 thr[j] = threshold_C[lo + j]
             q = _record(th, lo, w, 0, 0, query_idx, at_q, hist, keep_history)
-            gm = gas[0]                 # hottest gas so far
-            exc = np.full(w, 20.0 - gm)  # most the steel has been above it
+            gm = max(gas[0], 20.0)      # hottest gas so far (or the steel's start, 20 C)
+            exc = np.zeros(w)           # most the steel has been above it (track_excess)
             for i in range(n_t - 1):
                 dt = time_s[i + 1] - time_s[i]
                 i_f = float(i)
@@ -405,7 +407,9 @@ def _bare_chunks(time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, ksh_amv, alph
                     pki[j], pk[j], ci[j], cx[j], cn[j] = _track(i, i_f, x, new, thr[j], pk[j], pki[j], ci[j], cx[j], cn[j])
                     dl[j] = new - x
                     th[j] = new
-                    exc[j] = max(exc[j], new - gm)
+                if track_excess:
+                    for j in range(w):
+                        exc[j] = max(exc[j], th[j] - gm)
                 q = _record(th, lo, w, i + 1, q, query_idx, at_q, hist, keep_history)
             _finish(time_s, lo, w, pk, pki, dl, ci, cx, cn, thr, peak, peak_t, last, cross)
             for j in range(w):
@@ -508,7 +512,9 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     over the cores, rows of one fire together. The arithmetic per member-step is that of the twins in
     tests/twins.py, rearranged to one division for eq (4.27) and with :func:`expm1_scaled` for
     e^(phi/10) - 1; the results match them to 1e-9. ``excess_C`` is the most each row's steel rises above
-    the hottest gas of its fire reached so far, at any step of the run (kept or not).
+    the hottest gas of its fire reached so far (or 20 C, the steel's start), at any step of the run, kept or
+    not: tracked by the kernels where a fire dips and heats again, from the peak where every fire is single-
+    peaked (:func:`excess_from_peak`).
     """
     time_s = np.ascontiguousarray(fires.time_s, dtype=float)
     n_t = len(time_s)
@@ -524,6 +530,10 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
     n_threads = int(nb.get_num_threads())
     rho_a = float(steel_density_kg_m3)
     gas_FT = np.ascontiguousarray(gas.T)   # one row per fire: a chunk reads its fire's row
+    # the excess over the hottest gas so far: tracked step by step unless every fire rises to its peak and then
+    # only falls (nominal and Annex A fires), where it is the peak's own excess (see excess_from_peak)
+    used = np.unique(np.asarray(rows.fire, dtype=np.int64))
+    track = bool(fires.radiation_C is not None or not np.all(single_peaked(gas[:, used])))
     rad4_FT = None
     for gi, idx in enumerate(groups):
         if len(idx) == 0:
@@ -538,13 +548,13 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
                 rad4_FT = np.ascontiguousarray(t4 * t4 * t4 * t4)
             kernel = _bare_chunks
             args = (time_s, gas_FT, rad4_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.alpha_c.astype(float),
-                    float(emissivity_resultant), rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS)
+                    float(emissivity_resultant), rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS, track)
         else:
             k = 1 if gi == 1 else int(lam_n[idx].max())
             args = (time_s, gas_FT, chunk_start, chunk_fire, r.section_factor_per_m, r.thickness_m, r.density,
                     r.specific_heat, np.ascontiguousarray(r.conductivity_C[:, :k]),
                     np.ascontiguousarray(r.conductivity[:, :k]), r.conductivity_n.astype(np.int64), r.moisture_delay_s,
-                    rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS, EXPM1_TERMS)
+                    rho_a, thr, q, keep_history, SPECIFIC_HEAT_TERMS, EXPM1_TERMS, track)
             kernel = _protected_chunks
         res = _outputs(len(idx), len(q), n_t, keep_history)
         args = args + (np.zeros(1, dtype=np.int64),) + res
@@ -554,7 +564,32 @@ def run(fires: Fires, rows: Rows, *, emissivity_resultant: float, steel_density_
             a_[idx] = b_
         if keep_history:
             out[5][:, idx] = res[5]
+    if not track:
+        out[6] = excess_from_peak(time_s, gas, np.asarray(rows.fire, dtype=np.int64), out[0], out[1])
     return ThermalRun(out[0], out[1], out[2], out[3], out[4], out[6], out[5])
+
+
+def single_peaked(gas_C) -> np.ndarray:
+    """Per column of ``gas_C`` (T x F): whether the gas never falls before its (first) maximum and never
+    rises after it."""
+    g = np.asarray(gas_C, dtype=float)
+    if g.shape[0] < 2:
+        return np.ones(g.shape[1], dtype=bool)
+    k = np.argmax(g, axis=0)
+    d = np.diff(g, axis=0)
+    before = np.arange(d.shape[0])[:, None] < k[None, :]
+    return np.all(np.where(before, d >= 0.0, d <= 0.0), axis=0)
+
+
+def excess_from_peak(time_s, gas_C, fire, peak_C, peak_time_s) -> np.ndarray:
+    """The most each row's steel rises above max(hottest gas so far, 20 C) [C], from its peak alone: exact
+    for single-peaked fires (:func:`single_peaked`) stepped within the stability limit
+    (:mod:`steelfire.models.stability`). Before the gas peak a stable step cannot carry the steel above the
+    gas; after it the reference is constant, so the largest excess there is the steel's own peak's, where
+    the peak comes after the gas peak, and none (0) otherwise."""
+    ref = np.maximum.accumulate(np.maximum(np.asarray(gas_C, dtype=float), 20.0), axis=0)
+    k = np.minimum(np.searchsorted(time_s, peak_time_s), len(time_s) - 1)
+    return np.maximum(peak_C - ref[k, fire], 0.0)
 
 
 def uniform_rows(n, *, bare, section_factor_per_m, alpha_c=35.0, thickness_m=1.0, density=1.0, specific_heat=1.0,
