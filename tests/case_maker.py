@@ -16,8 +16,13 @@ import copy
 import csv
 import math
 import random
-import tomllib
+try:
+    import tomllib
+except ImportError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
 from pathlib import Path
+
+import fuzzing  # noqa: E402  (tests/fuzzing.py: the TOML value writer)
 
 ROOT = Path(__file__).resolve().parents[1]
 CASES_DIR = ROOT / "cases"
@@ -45,21 +50,10 @@ NOMINAL = ("standard", "external", "hydrocarbon")
 
 
 def _toml_value(v) -> str:
-    if isinstance(v, bool):
-        return "true" if v else "false"
-    if isinstance(v, int):
-        return str(v)
-    if isinstance(v, float):
-        if not math.isfinite(v):
-            raise ValueError(v)
-        return repr(v)
-    if isinstance(v, str):
-        return '"' + v.replace("\\", "\\\\").replace('"', '\\"') + '"'
-    if isinstance(v, (list, tuple)):
-        return "[" + ", ".join(_toml_value(x) for x in v) + "]"
-    if isinstance(v, dict):
-        return "{ " + ", ".join(f'"{k}" = {_toml_value(x)}' for k, x in v.items()) + " }"
-    raise TypeError(type(v))
+    """One TOML value on one line (the bundled fuzz's writer, :func:`fuzzing.toml_value`); non-finite refused."""
+    if isinstance(v, float) and not math.isfinite(v):
+        raise ValueError(v)
+    return fuzzing.toml_value(v)
 
 
 def toml_text(data: dict) -> str:

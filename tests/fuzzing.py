@@ -28,7 +28,10 @@ import shutil
 import signal
 import stat
 import sys
-import tomllib
+try:
+    import tomllib
+except ImportError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 

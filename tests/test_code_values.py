@@ -18,7 +18,10 @@ from __future__ import annotations
 import copy
 import functools
 import math
-import tomllib
+try:
+    import tomllib
+except ImportError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
 from pathlib import Path
 
 import pytest

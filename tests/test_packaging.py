@@ -12,7 +12,10 @@ from __future__ import annotations
 import ast
 import re
 import sys
-import tomllib
+try:
+    import tomllib
+except ImportError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
 from importlib import metadata
 from pathlib import Path
 
