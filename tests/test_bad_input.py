@@ -84,7 +84,10 @@ def to_toml(data: dict, prefix: str = "") -> str:
 
 
 def test_toml_writer_round_trips():
-    import tomllib
+    try:
+        import tomllib
+    except ImportError:  # pragma: no cover - Python 3.10
+        import tomli as tomllib
 
     for base in BASES.values():
         data = base()

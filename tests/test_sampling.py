@@ -349,9 +349,7 @@ def test_size_proposes_only_thicknesses_within_the_assessed_range():
     # a product is used within its assessed range (EN 13381, common practice): with board-a assessed for 20-40 mm
     # only, --size proposes no board thickness outside it and says why; with none left, the member is not
     # achievable (not sized over an unassessed thickness)
-    import tomllib as _toml
-
-    data = _toml.loads(CASE.read_text(encoding="utf-8"))
+    data = tomllib.loads(CASE.read_text(encoding="utf-8"))
     var = data.pop("variability")
     data["materials"]["board-a"]["assessed_thickness_mm"] = [20.0, 40.0]
     case = case_from_dict(data, base_dir=CASE.parent, source=CASE)
