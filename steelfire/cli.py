@@ -169,7 +169,7 @@ def _run_sample(args) -> int:
     band below the critical temperature counted as exceeding) is above it."""
     from steelfire.chain import sampling
     from steelfire.chain.analysis import analyse
-    from steelfire.outputs import document
+    from steelfire.outputs import document, terminal
 
     fires = _integer(args.fires, "--fires", 1)
     seed = _integer(args.seed, "--seed", 0)
@@ -203,68 +203,11 @@ def _run_sample(args) -> int:
     else:
         sys.stdout.write(render_table(result, sizing=args.size, wide=args.wide, out_dir=args.out,
                                       written=getattr(args, "written", None), command="sample")
-                         + "\n\n" + _sample_summary(section) + "\n")
+                         + "\n\n" + terminal.sample_summary(section, wide=args.wide) + "\n")
     target = section.get("target_probability")
     # not demonstrated: the upper end of the 95 % interval with the error band above the target (as --size judges)
     too_likely = target is not None and any(m["exceeds_target_probability"] for m in section["members"])
     return EXIT_OK if (result.all_ok and not too_likely) else EXIT_FAIL
-
-
-def _sample_summary(section) -> str:
-    """The sampled fires in a few lines per member, the section's warnings after them. Interval ends are
-    shown rounded outward (a shown upper end is never below the computed one)."""
-    from steelfire.outputs.present import outward
-
-    lines = [f"Sampled fires: {section['fires']} ({section['method']}, seed {section['seed']}); "
-             f"outside Annex A's scope: {section['out_of_scope_fires']}."]
-    frac = section.get("target_fractile")
-    lines.append(f"{'member':<20} {'P(exceed)':>9} {'95 % interval':>17} {'band C':>6} {'near':>5} "
-                 f"{'with band':>9} {'95 % interval':>17}")
-    for m in section["members"]:
-        lo, hi = m["exceedance_interval"]
-        blo, bhi = m.get("exceedance_interval_with_band") or (None, None)
-        band = m.get("error_band_C")
-        lines.append(f"{m['name'][:20]:<20} {m['exceedance_probability']:>9.4f} "
-                     f"{f'[{outward(lo, False, 4)}, {outward(hi, True, 4)}]':>17} "
-                     f"{'-' if band is None else outward(band, True, 2):>6} {m.get('near_critical_fires', '-'):>5} "
-                     f"{m.get('exceedance_probability_with_band', float('nan')):>9.4f} "
-                     f"{f'[{outward(blo, False, 4)}, {outward(bhi, True, 4)}]':>17}")
-    eb = section.get("error_band") or {}
-    lines += _wrap_text(f"band: the numerical error of the sampled peaks, per member, measured on the first "
-                        f"{eb.get('fires', '-')} fires (the common grid; 2 x the change at half the time step); "
-                        "near: fires whose peak lies within it of the critical temperature; with band: those below "
-                        "it counted as exceeding" + ("; the target probability is judged with the band."
-                                                     if section.get("target_probability") is not None else "."))
-    if frac:
-        lines.append(f"Standard period covering the {frac:g} fractile of the equivalent time, by route:")
-        for m in section["members"]:
-            none = m.get("no_period_covers_fractile") or {}
-            periods = ", ".join(f"{r}: {p or ('none up to R240' if none.get(r) else '-')}"
-                                for r, p in (m.get("period_covering_fractile") or {}).items())
-            lines.append(f"  {m['name'][:20]:<20} {periods}")
-        if any("none up to R240" in line for line in lines):
-            lines += _wrap_text("none up to R240: the fractile's equivalent time is above 240 min or beyond the "
-                                "times computed; -: the route gives no time for the member")
-    sized = [(m["name"], m["sizing"]) for m in section["members"] if isinstance(m.get("sizing"), dict)
-             and m["sizing"].get("achievable") is not None]
-    if sized:
-        lines += _wrap_text(f"Least supplied thickness for target_probability {section.get('target_probability'):g} "
-                            f"({sized[0][1].get('criterion')}):")
-        for name, sz in sized:
-            what = (f"{sz['chosen_mm']:g} mm, P with the band {sz.get('exceedance_probability_with_band'):.4g}"
-                    if sz.get("achievable") else (sz.get("note") or "not achievable"))
-            lines += _wrap_text(what, first=f"  {name[:20]:<20} ", indent=" " * 23)
-    for w in section.get("warnings", []):
-        lines += _wrap_text(w, first="warning: ", indent="  ")
-    return "\n".join(lines)
-
-
-def _wrap_text(text, first="", indent="", width=100) -> list:
-    """``text`` wrapped to ``width`` columns (the terminal summary's), ``first`` before the first line."""
-    import textwrap
-
-    return textwrap.wrap(text, width=width, initial_indent=first, subsequent_indent=indent or " " * 0,
-                         break_long_words=False, break_on_hyphens=False)
 
 
 def check_csv_target(path, inputs=()):

@@ -17,6 +17,7 @@ Materials and fires are invented for the checks (generic classes, not products).
 """
 
 import math
+import sys
 from pathlib import Path
 
 import numpy as np
@@ -29,22 +30,13 @@ import steelfire
 from steelfire.inputs.case import case_from_dict
 from steelfire.models import conduction as C
 
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from twins import c_a  # noqa: E402  (EN 1993-1-2 eq (3.2a)-(3.2d), the tests' plain-Python twin)
+
 RHO_A = 7850.0                          # EN 1993-1-2 3.2.2(1)
 SIGMA = 5.67e-8                         # EN 1991-1-2 3.1(6)
 BOARD = (800.0, 1700.0, 0.2)            # illustrative gypsum-like board (rho_p, c_p, lambda_p)
 HEAVY = (1200.0, 2200.0, 0.2)           # illustrative heavy protection
-
-
-def c_a(theta):
-    """Specific heat of steel [J/(kg K)], EN 1993-1-2 eq (3.2a)-(3.2d) (from memory), held below 20 C."""
-    th = max(theta, 20.0)
-    if th < 600.0:
-        return 425.0 + 0.773 * th - 1.69e-3 * th ** 2 + 2.22e-6 * th ** 3
-    if th < 735.0:
-        return 666.0 + 13002.0 / (738.0 - th)
-    if th < 900.0:
-        return 545.0 + 17820.0 / (th - 731.0)
-    return 650.0
 
 
 def iso834(t_s):

@@ -319,7 +319,7 @@ def test_sample_record_holds_the_sampled_statistics(sample_out):
 
 def test_sample_terminal_summary_shows_the_warnings_and_uncovered_fractiles(capsys):
     # a sample run's terminal summary ends with the section's warnings, and marks a route no period covers
-    from steelfire.cli import _sample_summary
+    from steelfire.outputs.terminal import sample_summary
 
     section = {"fires": 50, "method": "random", "seed": 1, "out_of_scope_fires": 0, "target_fractile": 0.9,
                "warnings": ["The 0.99 fractile of 50 fires is the largest sampled value."],
@@ -328,7 +328,7 @@ def test_sample_terminal_summary_shows_the_warnings_and_uncovered_fractiles(caps
                             "period_covering_fractile": {"annex_f": "R60", "cib_w14": None, "equal_temperature": None},
                             "no_period_covers_fractile": {"annex_f": False, "cib_w14": None,
                                                           "equal_temperature": True}}]}
-    text = _sample_summary(section)
+    text = sample_summary(section)
     assert "equal_temperature: none up to R240" in text and "cib_w14: -" in text
     assert "[0.0123, 0.0334]" in text          # outward: 0.0123456 down, 0.0333331 up (hand calculation)
     assert text.splitlines()[-1] == "warning: The 0.99 fractile of 50 fires is the largest sampled value."

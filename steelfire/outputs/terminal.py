@@ -314,3 +314,53 @@ def _files_in(out_dir) -> list:
 
 
 __all__ = ["render", "WIDTH"]
+
+
+def sample_summary(section, *, wide: bool = False) -> str:
+    """The ``variability`` section of a ``sample`` run in a few lines per member, then the sampled sizing and
+    the section's warnings. Interval ends are shown rounded outward (a shown upper end is never below the
+    computed one)."""
+    width = None if wide else WIDTH
+    out = P.outward
+    lines = [f"Sampled fires: {section['fires']} ({section['method']}, seed {section['seed']}); "
+             f"outside Annex A's scope: {section['out_of_scope_fires']}."]
+    lines.append(f"{'member':<20} {'P(exceed)':>9} {'95 % interval':>17} {'band C':>6} {'near':>5} "
+                 f"{'with band':>9} {'95 % interval':>17}")
+    for m in section["members"]:
+        lo, hi = m["exceedance_interval"]
+        blo, bhi = m.get("exceedance_interval_with_band") or (None, None)
+        band = m.get("error_band_C")
+        lines.append(f"{m['name'][:20]:<20} {m['exceedance_probability']:>9.4f} "
+                     f"{f'[{out(lo, False, 4)}, {out(hi, True, 4)}]':>17} "
+                     f"{'-' if band is None else out(band, True, 2):>6} {m.get('near_critical_fires', '-'):>5} "
+                     f"{m.get('exceedance_probability_with_band', float('nan')):>9.4f} "
+                     f"{f'[{out(blo, False, 4)}, {out(bhi, True, 4)}]':>17}")
+    eb = section.get("error_band") or {}
+    lines += _wrap(f"band: the numerical error of the sampled peaks, per member, measured on the first "
+                   f"{eb.get('fires', '-')} fires (the common grid; 2 x the change at half the time step); near: "
+                   "fires whose peak lies within it of the critical temperature; with band: those below it counted "
+                   "as exceeding" + ("; the target probability is judged with the band."
+                                     if section.get("target_probability") is not None else "."), width)
+    frac = section.get("target_fractile")
+    if frac:
+        lines.append(f"Standard period covering the {frac:g} fractile of the equivalent time, by route:")
+        for m in section["members"]:
+            none = m.get("no_period_covers_fractile") or {}
+            periods = ", ".join(f"{r}: {p or ('none up to R240' if none.get(r) else '-')}"
+                                for r, p in (m.get("period_covering_fractile") or {}).items())
+            lines += _wrap(periods, width, indent=" " * 23, first=f"  {m['name'][:20]:<20} ")
+        if any("none up to R240" in line for line in lines):
+            lines += _wrap("none up to R240: the fractile's equivalent time is above 240 min or beyond the times "
+                           "computed; -: the route gives no time for the member", width)
+    sized = [(m["name"], m["sizing"]) for m in section["members"] if isinstance(m.get("sizing"), dict)
+             and m["sizing"].get("achievable") is not None]
+    if sized:
+        lines += _wrap(f"Least supplied thickness for target_probability {section.get('target_probability'):g} "
+                       f"({sized[0][1].get('criterion')}):", width)
+        for name, sz in sized:
+            what = (f"{sz['chosen_mm']:g} mm, P with the band {sz.get('exceedance_probability_with_band'):.4g}"
+                    if sz.get("achievable") else (sz.get("note") or "not achievable"))
+            lines += _wrap(what, width, indent=" " * 23, first=f"  {name[:20]:<20} ")
+    for w in section.get("warnings", []):
+        lines += _wrap(w, width, indent="  ", first="warning: ")
+    return "\n".join(lines)
